@@ -9,3 +9,23 @@ export interface Actor {
   role: Role | 'device' | 'inspector';
   sessionId?: string;
 }
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    /** Set by the actor middleware from the session; absent for anonymous requests. */
+    actor?: Actor;
+  }
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    kind: 'member' | 'device' | 'inspector';
+    userId: string;
+    businessId: string;
+    deviceId: string;
+    inspectorLinkId: string;
+    createdAt: number;
+    lastSeenAt: number;
+    csrfToken: string;
+  }
+}

@@ -1,0 +1,172 @@
+import express, { type RequestHandler, type Router } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import helmet from 'helmet';
+import { rateLimit } from 'express-rate-limit';
+import path from 'node:path';
+import fs from 'node:fs';
+import type pg from 'pg';
+import type { Db } from './db/client';
+import type { Logger } from './lib/logger';
+import type { DemoAccount } from '../shared/contracts/auth';
+import type { HashParams } from './features/auth/passwords';
+import { DEFAULT_HASH_PARAMS } from './features/auth/passwords';
+import { HttpError } from './lib/http-error';
+import { requestContext } from './middleware/request-context';
+import { errorHandler, apiNotFound } from './middleware/error-handler';
+import { csrfProtection } from './middleware/csrf';
+import { loadActor, IDLE_TIMEOUT_MS, type ActorResolver } from './middleware/actor';
+import { healthRouter } from './features/health/health.routes';
+import { authRouter } from './features/auth/auth.routes';
+
+export interface AppConfig {
+  publicBaseUrl: string;
+  sessionSecret: string;
+  demoMode: boolean;
+  signupEnabled: boolean;
+  trustProxy: boolean;
+  /** Secure + __Host- cookie when served over https (or behind a trusted https proxy). */
+  secureCookies: boolean;
+  cookieName: string;
+  dataDir: string;
+  uploadDir: string;
+  /** Built client to serve; omitted in API-only tests. */
+  staticDir?: string;
+  demoAccounts: DemoAccount[];
+  hashParams: HashParams;
+  /** Failed sign-ins allowed per account / per address in each 15-minute window. */
+  signInLimitPerAccount: number;
+  signInLimitPerAddress: number;
+}
+
+export interface AppDeps {
+  db: Db;
+  pool: pg.Pool;
+  config: AppConfig;
+  logger: Logger;
+  /** The clock, injectable so tests can move time (session expiry, timers, reminders). */
+  now: () => Date;
+  limits: Record<'signInByAccount' | 'signInByAddress' | 'signUp', RequestHandler>;
+  actorResolvers: Partial<Record<'device' | 'inspector', ActorResolver>>;
+}
+
+export type CreateAppInput = Omit<AppDeps, 'limits' | 'actorResolvers'> & { actorResolvers?: AppDeps['actorResolvers'] };
+
+export function defaultConfig(overrides: Partial<AppConfig> & Pick<AppConfig, 'publicBaseUrl' | 'sessionSecret'>): AppConfig {
+  const secure = overrides.secureCookies ?? overrides.publicBaseUrl.startsWith('https://');
+  const dataDir = overrides.dataDir ?? '.data';
+  return {
+    demoMode: false,
+    signupEnabled: true,
+    trustProxy: false,
+    secureCookies: secure,
+    cookieName: secure ? '__Host-crumbtrail' : 'crumbtrail',
+    dataDir,
+    uploadDir: path.join(dataDir, 'uploads'),
+    demoAccounts: [],
+    hashParams: DEFAULT_HASH_PARAMS,
+    signInLimitPerAccount: 20,
+    signInLimitPerAddress: 100,
+    ...overrides,
+  };
+}
+
+const tooMany = (message: string): RequestHandler => (_req, res, next) => {
+  next(new HttpError(429, 'rate_limited', message, undefined, { 'Retry-After': String(res.getHeader('Retry-After') ?? 60) }));
+};
+
+export function createApp(input: CreateAppInput) {
+  const { config, logger, pool } = input;
+  const windowMs = 15 * 60 * 1000;
+  const deps: AppDeps = {
+    ...input,
+    actorResolvers: input.actorResolvers ?? {},
+    limits: {
+      // Counts failures only, per account: a real user is never locked out for more than the window.
+      signInByAccount: rateLimit({
+        windowMs, limit: config.signInLimitPerAccount, skipSuccessfulRequests: true, standardHeaders: 'draft-8', legacyHeaders: false,
+        keyGenerator: (req) => `acct:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+        handler: tooMany('Too many failed sign-ins for this account. Wait a few minutes and try again.'),
+      }),
+      signInByAddress: rateLimit({
+        windowMs, limit: config.signInLimitPerAddress, skipSuccessfulRequests: true, standardHeaders: 'draft-8', legacyHeaders: false,
+        handler: tooMany('Too many failed sign-ins from this address. Wait a few minutes and try again.'),
+      }),
+      signUp: rateLimit({ windowMs, limit: 20, standardHeaders: 'draft-8', legacyHeaders: false, handler: tooMany('Too many sign-ups from this address. Try again later.') }),
+    },
+  };
+
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.trustProxy) app.set('trust proxy', 1);
+  app.use((req, _res, next) => (req.method === 'TRACE' || req.method === 'TRACK' ? next(new HttpError(405, 'forbidden', 'Method not allowed.')) : next()));
+  app.use(requestContext(logger));
+  const isHttps = config.publicBaseUrl.startsWith('https://');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          'base-uri': ["'none'"],
+          'object-src': ["'none'"],
+          'frame-ancestors': ["'none'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'form-action': ["'self'"],
+          // Plain-http loopback (demo, tests) would break if every request were upgraded to https.
+          'upgrade-insecure-requests': isHttps ? [] : null,
+        },
+      },
+      strictTransportSecurity: { maxAge: 31_536_000, includeSubDomains: true },
+      referrerPolicy: { policy: 'same-origin' },
+    }),
+  );
+
+  const PgStore = connectPgSimple(session);
+  const api = express.Router();
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(express.json({ limit: '1mb' }));
+  api.use(
+    session({
+      name: config.cookieName,
+      secret: config.sessionSecret,
+      store: new PgStore({ pool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      proxy: config.trustProxy,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, path: '/', maxAge: IDLE_TIMEOUT_MS },
+    }),
+  );
+  api.use(csrfProtection([new URL(config.publicBaseUrl).origin]));
+  api.use(loadActor(input.db, input.now, deps.actorResolvers));
+  mountApiRoutes(api, deps);
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  mountPublicRoutes(app, deps);
+
+  if (config.staticDir && fs.existsSync(config.staticDir)) {
+    const staticDir = path.resolve(config.staticDir);
+    app.use(express.static(staticDir, { index: false, maxAge: '1h', setHeaders: (res, file) => { if (file.includes(`${path.sep}assets${path.sep}`)) res.set('Cache-Control', 'public, max-age=31536000, immutable'); } }));
+    const indexHtml = path.join(staticDir, 'index.html');
+    app.get('/{*splat}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache');
+      res.sendFile(indexHtml);
+    });
+  }
+  app.use(errorHandler(logger));
+  return app;
+}
+
+/** Feature API routers, each under /api/<plural-noun>. */
+function mountApiRoutes(api: Router, deps: AppDeps) {
+  api.use('/health', healthRouter(deps));
+  api.use('/auth', authRouter(deps));
+}
+
+/** Pages served outside /api: the public lot page, the inspector link exchange. */
+function mountPublicRoutes(_app: express.Express, _deps: AppDeps) {}

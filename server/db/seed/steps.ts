@@ -1,0 +1,5 @@
+import type { SeedStep } from './demo';
+
+// Feature seed steps in dependency order (ingredients before recipes before batches, ...).
+// Each feature adds one import and one entry here.
+export const DEMO_STEPS: SeedStep[] = [];
