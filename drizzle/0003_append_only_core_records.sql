@@ -1,0 +1,15 @@
+SELECT crumbtrail_make_append_only('ingredient_versions');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('ingredient_label_files');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('supplier_lots');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('supplier_lot_label_checks');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('recipe_versions');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('batch_versions');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('batch_inputs');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('batch_state_changes');
