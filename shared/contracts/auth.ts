@@ -30,7 +30,7 @@ export const ChangePasswordInputSchema = z.object({
   currentPassword: z.string().min(1, 'Enter your current password'),
   newPassword: PasswordSchema,
   endOtherSessions: z.boolean().default(true),
-});
+}).strict();
 export type ChangePasswordInput = z.infer<typeof ChangePasswordInputSchema>;
 
 export const SessionUserSchema = z.object({
