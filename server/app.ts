@@ -18,6 +18,7 @@ import { csrfProtection } from './middleware/csrf';
 import { loadActor, IDLE_TIMEOUT_MS, type ActorResolver } from './middleware/actor';
 import { healthRouter } from './features/health/health.routes';
 import { authRouter } from './features/auth/auth.routes';
+import { localDiskStorage, type FileStorage } from './lib/storage';
 
 export interface AppConfig {
   publicBaseUrl: string;
@@ -48,9 +49,11 @@ export interface AppDeps {
   now: () => Date;
   limits: Record<'signInByAccount' | 'signInByAddress' | 'signUp', RequestHandler>;
   actorResolvers: Partial<Record<'device' | 'inspector', ActorResolver>>;
+  /** Uploaded files (supplier labels, documents): local disk under config.uploadDir unless replaced. */
+  storage: FileStorage;
 }
 
-export type CreateAppInput = Omit<AppDeps, 'limits' | 'actorResolvers'> & { actorResolvers?: AppDeps['actorResolvers'] };
+export type CreateAppInput = Omit<AppDeps, 'limits' | 'actorResolvers' | 'storage'> & { actorResolvers?: AppDeps['actorResolvers']; storage?: FileStorage };
 
 export function defaultConfig(overrides: Partial<AppConfig> & Pick<AppConfig, 'publicBaseUrl' | 'sessionSecret'>): AppConfig {
   const secure = overrides.secureCookies ?? overrides.publicBaseUrl.startsWith('https://');
@@ -81,6 +84,7 @@ export function createApp(input: CreateAppInput) {
   const deps: AppDeps = {
     ...input,
     actorResolvers: input.actorResolvers ?? {},
+    storage: input.storage ?? localDiskStorage(config.uploadDir),
     limits: {
       // Counts failures only, per account: a real user is never locked out for more than the window.
       signInByAccount: rateLimit({

@@ -4,6 +4,7 @@ import { createDb, createPool } from './db/client';
 import { createApp, defaultConfig } from './app';
 import { sql } from 'drizzle-orm';
 import { DEMO_ACCOUNTS } from './db/seed/demo-accounts';
+import { sweepPartialUploads } from './lib/storage';
 
 const env = readEnv();
 const logger = createLogger(env.LOG_LEVEL);
@@ -43,6 +44,8 @@ const app = createApp({
 });
 
 await warnIfNotDurable();
+const swept = await sweepPartialUploads(env.UPLOAD_DIR ?? `${env.DATA_DIR}/uploads`);
+if (swept) logger.info({ event: 'uploads_swept', count: swept }, 'removed partial uploads left by a crash');
 const server = app.listen(env.PORT, env.HOST, () => {
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : env.PORT;
