@@ -49,6 +49,7 @@ export async function checkUploadedFile(file: Express.Multer.File | undefined, a
 
 /** Strips paths, control characters and odd punctuation from a user's file name. */
 export function safeDisplayName(original: string, kind: AllowedKind): string {
+  // eslint-disable-next-line no-control-regex -- stripping control characters is the point
   const base = (original.split(/[\\/]/).pop() ?? '').replace(/[\u0000-\u001f\u007f]/g, '');
   const stem = base.replace(/\.[^.]*$/, '').replace(/[^\p{L}\p{N} _().-]/gu, '').replace(/\.+/g, '.').trim().slice(0, 80);
   return `${stem || 'file'}.${kind === 'jpg' ? 'jpg' : kind}`;
