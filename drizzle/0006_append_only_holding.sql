@@ -1,0 +1,9 @@
+SELECT crumbtrail_make_append_only('written_procedures');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('holding_periods');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('holding_readings');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('holding_stops');
+--> statement-breakpoint
+SELECT crumbtrail_make_append_only('holding_actions');
