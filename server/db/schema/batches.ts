@@ -18,11 +18,17 @@ export const batches = pgTable(
     recipeVersionId: uuid().notNull().references(() => recipeVersions.id),
     madeOn: date({ mode: 'string' }).notNull(),
     daySequence: integer().notNull(),
+    /** Mirrors the latest batch_state_changes row (written in the same transaction) so lists filter by index. */
+    state: text().notNull().default('in_progress'),
+    /** Mirrors the highest batch_versions.version. */
+    currentVersion: integer().notNull().default(1),
     createdByUserId: uuid().references(() => users.id),
     ...timestamps,
   },
   (t) => [
     uniqueIndex('batches_business_id_lot_code_key').on(t.businessId, t.lotCode),
+    uniqueIndex('batches_business_id_made_on_day_sequence_key').on(t.businessId, t.madeOn, t.daySequence),
+    index('batches_business_id_state_idx').on(t.businessId, t.state),
     uniqueIndex('batches_public_code_key').on(t.publicCode),
     index('batches_business_id_made_on_idx').on(t.businessId, t.madeOn),
   ],
