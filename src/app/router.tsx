@@ -1,0 +1,73 @@
+import { createBrowserRouter, type ActionFunction, type LoaderFunction, type RouteObject } from 'react-router';
+import type { ComponentType } from 'react';
+import type { QueryClient } from '@tanstack/react-query';
+import { AppLayout, appLayoutLoader } from './layouts/app-layout';
+import { AuthLayout } from './layouts/auth-layout';
+import { RootErrorBoundary, RouteErrorBoundary } from './route-error';
+import { LoadingBlock } from '@/components/ui/spinner';
+
+/** What every file in src/app/routes/<area>/<page>.tsx exports. */
+export interface RouteModule {
+  Component: ComponentType;
+  ErrorBoundary?: ComponentType;
+  loader?: (qc: QueryClient) => LoaderFunction;
+  action?: (qc: QueryClient) => ActionFunction;
+}
+
+/** Lazy route: the module's code loads on first visit; its loader/action get the query client. */
+function page(qc: QueryClient, load: () => Promise<RouteModule>): Pick<RouteObject, 'lazy'> {
+  return {
+    lazy: async () => {
+      const m = await load();
+      return {
+        Component: m.Component,
+        ErrorBoundary: m.ErrorBoundary ?? RouteErrorBoundary,
+        ...(m.loader ? { loader: m.loader(qc) } : {}),
+        ...(m.action ? { action: m.action(qc) } : {}),
+      };
+    },
+  };
+}
+
+export function createAppRouter(qc: QueryClient) {
+  return createBrowserRouter([
+    {
+      id: 'root',
+      ErrorBoundary: RootErrorBoundary,
+      HydrateFallback: () => <LoadingBlock label="Opening Crumbtrail…" />,
+      children: [
+        {
+          Component: AuthLayout,
+          ErrorBoundary: RouteErrorBoundary,
+          children: [
+            { path: 'sign-in', ...page(qc, () => import('./routes/auth/sign-in')) },
+            { path: 'sign-up', ...page(qc, () => import('./routes/auth/sign-up')) },
+            { path: 'join', ...page(qc, () => import('./routes/auth/join')) },
+          ],
+        },
+        {
+          id: 'app',
+          loader: appLayoutLoader(qc),
+          Component: AppLayout,
+          ErrorBoundary: RouteErrorBoundary,
+          children: [
+            { index: true, ...page(qc, () => import('./routes/kitchen/kitchen-board')) },
+            { path: 'batches', ...page(qc, () => import('./routes/batches/batch-list')) },
+            { path: 'recipes', ...page(qc, () => import('./routes/recipes/recipe-list')) },
+            { path: 'ingredients', ...page(qc, () => import('./routes/ingredients/ingredient-list')) },
+            { path: 'cleaning', ...page(qc, () => import('./routes/cleaning/cleaning-log')) },
+            { path: 'labels', ...page(qc, () => import('./routes/labels/label-list')) },
+            { path: 'records', ...page(qc, () => import('./routes/records/records-home')) },
+            { path: 'trace', ...page(qc, () => import('./routes/trace/trace-home')) },
+            { path: 'sales', ...page(qc, () => import('./routes/sales/sales-log')) },
+            { path: 'team', ...page(qc, () => import('./routes/team/team-page')) },
+            { path: 'settings', ...page(qc, () => import('./routes/settings/settings-page')) },
+            { path: 'sent-mail', ...page(qc, () => import('./routes/sent-mail/sent-mail-list')) },
+            { path: 'account', ...page(qc, () => import('./routes/account/account-page')) },
+          ],
+        },
+        { path: '*', ...page(qc, () => import('./routes/errors/not-found')) },
+      ],
+    },
+  ]);
+}
