@@ -18,6 +18,10 @@ import { csrfProtection } from './middleware/csrf';
 import { loadActor, IDLE_TIMEOUT_MS, type ActorResolver } from './middleware/actor';
 import { healthRouter } from './features/health/health.routes';
 import { authRouter } from './features/auth/auth.routes';
+import { accountRouter } from './features/auth/account.routes';
+import { teamRouter } from './features/team/team.routes';
+import { devicesRouter } from './features/devices/devices.routes';
+import { deviceActorResolver } from './features/devices/devices.service';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 
 export interface AppConfig {
@@ -35,9 +39,11 @@ export interface AppConfig {
   staticDir?: string;
   demoAccounts: DemoAccount[];
   hashParams: HashParams;
-  /** Failed sign-ins allowed per account / per address in each 15-minute window. */
+  /** Failed sign-ins allowed per account / per address in each window (A4-2.2.1: at most 100 an hour per account). */
   signInLimitPerAccount: number;
   signInLimitPerAddress: number;
+  /** Length of the sign-in throttling window; 15 minutes unless a test shortens it. */
+  signInWindowMs: number;
 }
 
 export interface AppDeps {
@@ -70,6 +76,7 @@ export function defaultConfig(overrides: Partial<AppConfig> & Pick<AppConfig, 'p
     hashParams: DEFAULT_HASH_PARAMS,
     signInLimitPerAccount: 20,
     signInLimitPerAddress: 100,
+    signInWindowMs: 15 * 60 * 1000,
     ...overrides,
   };
 }
@@ -80,10 +87,11 @@ const tooMany = (message: string): RequestHandler => (_req, res, next) => {
 
 export function createApp(input: CreateAppInput) {
   const { config, logger, pool } = input;
-  const windowMs = 15 * 60 * 1000;
+  const windowMs = config.signInWindowMs;
   const deps: AppDeps = {
     ...input,
-    actorResolvers: input.actorResolvers ?? {},
+    // Kitchen devices are always resolvable; tests or features may add others (inspector links).
+    actorResolvers: { ...input.actorResolvers, device: deviceActorResolver },
     storage: input.storage ?? localDiskStorage(config.uploadDir),
     limits: {
       // Counts failures only, per account: a real user is never locked out for more than the window.
@@ -170,6 +178,9 @@ export function createApp(input: CreateAppInput) {
 function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/health', healthRouter(deps));
   api.use('/auth', authRouter(deps));
+  api.use('/account', accountRouter(deps));
+  api.use('/team', teamRouter(deps));
+  api.use('/devices', devicesRouter(deps));
 }
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */

@@ -27,5 +27,7 @@ declare module 'express-session' {
     createdAt: number;
     lastSeenAt: number;
     csrfToken: string;
+    /** Shown in the member's list of sessions. */
+    userAgent: string;
   }
 }

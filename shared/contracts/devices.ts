@@ -29,3 +29,7 @@ export const DeviceParamsSchema = z.object({ deviceId: UuidSchema });
 /** POST /api/devices/enrol (public, on the tablet): answers SessionInfoSchema with kind 'device'. */
 export const EnrolDeviceInputSchema = z.object({ code: z.string().trim().min(1, 'Enter the enrolment code').max(100, 'That code is not valid') }).strict();
 export type EnrolDeviceInput = z.infer<typeof EnrolDeviceInputSchema>;
+
+/** GET /api/devices/current (the device itself): which tablet this is and for which business. */
+export const CurrentDeviceSchema = z.object({ id: z.string().uuid(), name: z.string(), businessName: z.string(), sessionExpiresAt: z.string() });
+export type CurrentDevice = z.infer<typeof CurrentDeviceSchema>;
