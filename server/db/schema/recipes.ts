@@ -3,9 +3,10 @@ import { timestamps } from './columns';
 import { businesses } from './business';
 import { users } from './auth';
 
+/** `entered` keeps the amount and unit as typed (display only); `grams` is the exact stored weight. */
 export type StoredRecipeComponent =
-  | { kind: 'ingredient'; ingredientId: string; grams: string }
-  | { kind: 'recipe'; recipeId: string; grams: string };
+  | { kind: 'ingredient'; ingredientId: string; grams: string; entered?: { amount: string; unit: 'g' | 'kg' | 'oz' | 'lb' } }
+  | { kind: 'recipe'; recipeId: string; grams: string; entered?: { amount: string; unit: 'g' | 'kg' | 'oz' | 'lb' } };
 
 export const recipes = pgTable(
   'recipes',
@@ -32,10 +33,10 @@ export const recipeVersions = pgTable(
     /** Sellable product (labels, batches) or an in-between recipe such as a frosting. */
     isSellable: boolean().notNull().default(true),
     components: jsonb().$type<StoredRecipeComponent[]>().notNull(),
-    /** Weight of the finished batch, grams (exact decimal); null = sum of components. */
-    yieldGrams: numeric({ precision: 14, scale: 5 }),
+    /** Weight of the finished batch, grams (exact decimal, unbounded scale: 1 oz = 28.349523125 g); null = sum of components. */
+    yieldGrams: numeric(),
     yieldPieces: integer(),
-    pieceGrams: numeric({ precision: 14, scale: 5 }),
+    pieceGrams: numeric(),
     piecesPerPackage: integer(),
     shelfLifeDays: integer(),
     ph: numeric({ precision: 4, scale: 2 }),
