@@ -84,3 +84,15 @@ export async function businessWithAgents(t: TestApp) {
   const [owner, baker, helper] = await Promise.all((['owner', 'baker', 'helper'] as const).map((r) => signedInAgent(t, business, r)));
   return { business, owner: owner!, baker: baker!, helper: helper!, anonymous: new ApiAgent(t.app) };
 }
+
+/** A kitchen tablet enrolled by the given owner agent, signed in with its device session. */
+export async function enrolledDeviceAgent(t: TestApp, owner: ApiAgent, name = 'Kitchen tablet'): Promise<{ agent: ApiAgent; deviceId: string }> {
+  const created = await owner.post('/api/devices').send({ name });
+  if (created.status !== 201) throw new Error(`device creation failed: ${created.status} ${JSON.stringify(created.body)}`);
+  const agent = new ApiAgent(t.app);
+  await agent.refreshCsrf();
+  const res = await agent.post('/api/devices/enrol').send({ code: created.body.enrolmentCode });
+  if (res.status !== 201) throw new Error(`enrolment failed: ${res.status} ${JSON.stringify(res.body)}`);
+  agent.csrfToken = res.body.csrfToken;
+  return { agent, deviceId: created.body.device.id };
+}
