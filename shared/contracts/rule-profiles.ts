@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { HOLDING_POLICIES } from '../domain/holding-policies';
 
 const IsoDateSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2025-09-01');
 
@@ -23,7 +24,6 @@ export const LabelElementKeySchema = z.enum(LABEL_ELEMENT_KEYS);
 export const SALES_CHANNELS = ['direct', 'event', 'online', 'wholesale'] as const;
 export const SalesChannelSchema = z.enum(SALES_CHANNELS);
 
-export const HOLDING_POLICIES = ['none', 'tphc-4h', 'tphc-6h', 'cooling', 'custom'] as const;
 export const HoldingPolicyKindSchema = z.enum(HOLDING_POLICIES);
 
 const StatementSchema = z.object({
@@ -61,7 +61,7 @@ export const SanitiserRuleSchema = z.discriminatedUnion('chemical', [
     minContactSeconds: z.number().positive(),
   }),
   z.object({ chemical: z.literal('hot_water'), minTempC: z.number(), minContactSeconds: z.number().positive() }),
-  z.object({ chemical: z.literal('label_instructions'), note: z.string() }),
+  z.object({ chemical: z.literal('label_product'), note: z.string() }),
 ]);
 
 const SalesCapSchema = z.object({

@@ -35,7 +35,7 @@ const US_SANITISERS = {
   }),
 };
 const LABEL_ONLY_SANITISERS = {
-  value: [{ chemical: 'label_instructions' as const, note: 'Use the concentration, temperature and contact time on the product label.' }],
+  value: [{ chemical: 'label_product' as const, note: 'Use the concentration, temperature and contact time on the product label.' }],
   source: src('No numeric sanitiser values in Reg. (EC) 852/2004; follow the product label (common practice)', false),
 };
 
@@ -87,7 +87,7 @@ const PROFILES: RuleProfile[] = [
     salesCap: NO_CAP('No federal cottage-food sales cap; state law sets one'),
     salesChannels: { value: ['direct', 'event', 'online', 'wholesale'], source: src('No federal cottage-food channel limits (common practice)', false) },
     allowsTcsFoods: { value: true, source: src('No federal cottage-food product limits; licensed kitchens follow the Food Code (common practice)', false) },
-    holdingPolicy: { value: { kind: 'tphc-4h', customLimitMinutes: null }, source: src('FDA Food Code 3-501.19(B) (as adopted, MN 4626.0408)', true) },
+    holdingPolicy: { value: { kind: 'tphc_4h', customLimitMinutes: null }, source: src('FDA Food Code 3-501.19(B) (as adopted, MN 4626.0408)', true) },
     sanitisers: US_SANITISERS,
   },
   {
@@ -178,7 +178,7 @@ const PROFILES: RuleProfile[] = [
     salesChannels: { value: ['direct', 'event', 'online'], source: src('Direct, event and online orders delivered in person (value from memory)', false) },
     allowsTcsFoods: { value: true, source: src('Tex. Health & Safety Code 437.0193(e): TCS baked goods allowed with extra labelling', true) },
     holdingPolicy: {
-      value: { kind: 'tphc-4h', customLimitMinutes: null },
+      value: { kind: 'tphc_4h', customLimitMinutes: null },
       source: src('Texas cottage law sets no holding limit; FDA Food Code 3-501.19(B) used as the default', false),
     },
     sanitisers: US_SANITISERS,
