@@ -22,6 +22,7 @@ import { accountRouter } from './features/auth/account.routes';
 import { teamRouter } from './features/team/team.routes';
 import { devicesRouter } from './features/devices/devices.routes';
 import { deviceActorResolver } from './features/devices/devices.service';
+import { batchesRouter } from './features/batches/batches.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 
 export interface AppConfig {
@@ -181,6 +182,7 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/account', accountRouter(deps));
   api.use('/team', teamRouter(deps));
   api.use('/devices', devicesRouter(deps));
+  api.use('/batches', batchesRouter(deps));
 }
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */
