@@ -313,14 +313,15 @@ export function termsRegex(terms: readonly string[]): RegExp {
   return re;
 }
 
+let namedRegexes: Array<[AllergenSource, RegExp]> | null = null;
+
 /** Every allergen word we know, for spotting an ingredient whose text names an allergen it does not declare. */
 export function sourcesNamedIn(text: string): AllergenSource[] {
-  const found: AllergenSource[] = [];
-  for (const source of ALLERGEN_SOURCES) {
+  namedRegexes ??= ALLERGEN_SOURCES.map((source) => {
     const terms = source === 'tree_nut' ? Object.values(NUTS).flatMap((n) => n.aliases) : termsFor({ source });
-    if (terms.length && termsRegex(terms).test(text)) found.push(source);
-  }
-  return found;
+    return [source, new RegExp(termsRegex(terms).source, 'iu')] as [AllergenSource, RegExp];
+  });
+  return namedRegexes.filter(([, re]) => re.test(text)).map(([source]) => source);
 }
 
 /** One allergen of the finished food, as a regime lists it. */
