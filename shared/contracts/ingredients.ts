@@ -188,7 +188,9 @@ export const ListIngredientsQuerySchema = z.object({
   status: z.enum(['unverified', 'recheck', 'tcs']).optional(),
   includeArchived: flag.optional(),
 });
-export type ListIngredientsQuery = z.input<typeof ListIngredientsQuerySchema>;
+export type ListIngredientsQuery = z.infer<typeof ListIngredientsQuerySchema>;
+/** The query string as the client sends it. */
+export type ListIngredientsParams = z.input<typeof ListIngredientsQuerySchema>;
 
 export const IngredientListSchema = z.object({ items: z.array(IngredientSchema) });
 export type IngredientList = z.infer<typeof IngredientListSchema>;

@@ -1,6 +1,10 @@
 import { and, desc, eq, inArray, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
 import { ingredientVersions } from '../../db/schema/ingredients';
+import { users } from '../../db/schema/auth';
+import { notFound } from '../../lib/http-error';
+import type { Actor } from '../../lib/actor';
+import type { PersonRef } from '../../../shared/contracts/ingredients';
 import type { IngredientDecl } from '../../../shared/domain/recipe-flatten';
 
 export type IngredientVersionRow = typeof ingredientVersions.$inferSelect;
@@ -40,3 +44,22 @@ export async function loadIngredientDecls(db: DbOrTx, businessId: string, ids?: 
   const rows = await currentIngredientVersions(db, businessId, ids);
   return new Map(rows.map((v) => [v.ingredientId, toIngredientDecl(v)]));
 }
+
+/** Display names for user ids (people of this business only ever appear here through their own records). */
+export async function peopleByIds(db: DbOrTx, ids: Array<string | null | undefined>): Promise<Map<string, string>> {
+  const unique = [...new Set(ids.filter((x): x is string => !!x))];
+  if (!unique.length) return new Map();
+  const rows = await db.select({ id: users.id, name: users.displayName }).from(users).where(inArray(users.id, unique));
+  return new Map(rows.map((r) => [r.id, r.name]));
+}
+
+export const personRef = (people: Map<string, string>, id: string | null | undefined): PersonRef | null =>
+  id ? { userId: id, name: people.get(id) ?? 'Former member' } : null;
+
+/** 404 unless the ingredient is this business's; returns its current version. */
+export async function requireIngredient(db: DbOrTx, actor: Actor, id: string): Promise<IngredientVersionRow> {
+  const [current] = await currentIngredientVersions(db, actor.businessId, [id]);
+  if (!current) throw notFound('That ingredient');
+  return current;
+}
+
