@@ -21,6 +21,7 @@ import { authRouter } from './features/auth/auth.routes';
 import { accountRouter } from './features/auth/account.routes';
 import { teamRouter } from './features/team/team.routes';
 import { devicesRouter } from './features/devices/devices.routes';
+import { holdingRouter, kitchenBoardRouter, writtenProceduresRouter } from './features/holding/holding.routes';
 import { deviceActorResolver } from './features/devices/devices.service';
 import { batchesRouter } from './features/batches/batches.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
@@ -183,6 +184,9 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/account', accountRouter(deps));
   api.use('/team', teamRouter(deps));
   api.use('/devices', devicesRouter(deps));
+  api.use('/holding-periods', holdingRouter(deps));
+  api.use('/written-procedures', writtenProceduresRouter(deps));
+  api.use('/kitchen-board', kitchenBoardRouter(deps));
   api.use('/batches', batchesRouter(deps));
   api.use('/ingredients', ingredientsRouter(deps));
   api.use('/supplier-lots', supplierLotsRouter(deps));
