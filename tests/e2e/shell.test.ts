@@ -1,15 +1,21 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, type E2eServer } from '../support/e2e';
+import type { Browser, Page } from 'playwright-core';
+import { checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, VIEWPORTS, type E2eServer } from '../support/e2e';
 import { createTestBusiness, TEST_PASSWORD, type TestBusiness } from '../support/agents';
 
 let server: E2eServer;
 let browser: Browser;
 let business: TestBusiness;
+const SHOTS = path.resolve('.data/screenshots');
 
 beforeAll(async () => {
-  [server, browser] = await Promise.all([startE2eServer(), launchBrowser()]);
+  [server, browser] = await Promise.all([startE2eServer({ demoMode: true }), launchBrowser()]);
   business = await createTestBusiness(server.t);
+  // The sign-in page lists whatever demo accounts the server has; point them at this test's people.
+  server.t.config.demoAccounts = (['owner', 'baker', 'helper'] as const).map((role) => ({ ...business.members[role], role, password: TEST_PASSWORD }));
+  fs.mkdirSync(SHOTS, { recursive: true });
 });
 afterAll(async () => {
   await browser?.close();
@@ -22,14 +28,202 @@ const NAV_BY_ROLE = {
   helper: ['Kitchen board', 'Batches', 'Recipes', 'Cleaning', 'Account'],
 } as const;
 
-describe('signed-in shell', () => {
-  test.each(['owner', 'baker', 'helper'] as const)('when a %s signs in, then the navigation lists exactly their screens', async (role) => {
-    const { context, page } = await newPage(browser);
-    await signInInBrowser(page, server.baseUrl, business.members[role].email, TEST_PASSWORD);
-    const nav = page.getByRole('navigation', { name: 'Main' });
-    await expect.poll(() => nav.getByRole('link').allInnerTexts()).toEqual([...NAV_BY_ROLE[role]]);
-    await expect(page.getByText(business.name).first().isVisible()).resolves.toBe(true);
-    expect(describeViolations(await checkA11y(page))).toEqual([]);
+async function expectNoViolations(page: Page) {
+  expect(describeViolations(await checkA11y(page))).toEqual([]);
+}
+
+async function withPage(viewport: { width: number; height: number }, fn: (page: Page) => Promise<void>) {
+  const { context, page } = await newPage(browser, viewport);
+  try {
+    await fn(page);
+  } finally {
     await context.close();
+  }
+}
+
+describe('sign-in', () => {
+  test('when the page opens in demo mode, then it lists the demo people and a click fills the form', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`);
+      await expectNoViolations(page);
+      await page.getByRole('button', { name: new RegExp(business.members.baker.displayName) }).click();
+      await expect(page.getByLabel('E-mail').inputValue()).resolves.toBe(business.members.baker.email);
+      await expect(page.getByLabel('Password', { exact: true }).inputValue()).resolves.toBe(TEST_PASSWORD);
+    }));
+
+  test('when the password is wrong, then the error is in text, tied to the form, and axe finds nothing', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`);
+      await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+      await expect(page.getByLabel('E-mail').getAttribute('aria-invalid')).resolves.toBe('true');
+      await expectNoViolations(page);
+      await page.getByLabel('E-mail').fill(business.members.owner.email);
+      await page.getByLabel('Password', { exact: true }).fill('not the password');
+      await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+      await expect(page.getByRole('alert').first().innerText()).resolves.toContain('do not match');
+      await expectNoViolations(page);
+    }));
+
+  test('when signing in with the keyboard only, then Tab and Enter reach the kitchen board with focus always visible', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`);
+      await page.getByRole('heading', { name: 'Sign in' }).waitFor();
+      const focusedLabel = () => page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.labels?.[0]?.textContent ?? document.activeElement?.textContent ?? '');
+      const outline = () => page.evaluate(() => getComputedStyle(document.activeElement!).outlineWidth + ' ' + getComputedStyle(document.activeElement!).outlineStyle);
+      for (let i = 0; i < 6 && (await focusedLabel()) !== 'E-mail'; i++) await page.keyboard.press('Tab');
+      expect(await focusedLabel()).toBe('E-mail');
+      expect(await outline()).toBe('3px solid');
+      await page.keyboard.type(business.members.helper.email);
+      await page.keyboard.press('Tab');
+      expect(await focusedLabel()).toBe('Password');
+      await page.keyboard.type(TEST_PASSWORD);
+      await page.keyboard.press('Enter');
+      await page.getByRole('heading', { name: 'Kitchen board', level: 1 }).waitFor();
+      expect(new URL(page.url()).pathname).toBe('/');
+    }));
+
+  test('when a signed-out person opens a deep link, then they sign in and land on it', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await page.goto(`${server.baseUrl}/recipes`);
+      await page.waitForURL(/\/sign-in\?next=%2Frecipes/);
+      await page.getByLabel('E-mail').fill(business.members.baker.email);
+      await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
+      await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+      await page.getByRole('heading', { name: 'Recipes', level: 1 }).waitFor();
+      expect(new URL(page.url()).pathname).toBe('/recipes');
+    }));
+});
+
+describe('signed-in shell', () => {
+  test.each(['owner', 'baker', 'helper'] as const)('when a %s signs in, then the navigation lists exactly their screens', (role) =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members[role].email, TEST_PASSWORD);
+      const nav = page.getByRole('navigation', { name: 'Main' });
+      await expect.poll(() => nav.getByRole('link').allInnerTexts()).toEqual([...NAV_BY_ROLE[role]]);
+      await expect(page.getByText(business.name).first().isVisible()).resolves.toBe(true);
+      await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(true);
+      await expectNoViolations(page);
+    }));
+
+  test('when a helper opens the team screen by address, then it says the screen is not for their role', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.helper.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/team`);
+      await page.getByRole('heading', { name: 'Not available for your role' }).waitFor();
+      await expectNoViolations(page);
+    }));
+
+  test('when an address does not exist, then a 404 page offers the way home', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await page.goto(`${server.baseUrl}/no-such-page`);
+      await page.getByRole('heading', { name: 'Page not found' }).waitFor();
+      await expect(page.getByRole('link', { name: 'Go to the kitchen board' }).isVisible()).resolves.toBe(true);
+      await expectNoViolations(page);
+    }));
+
+  test('when sign out is pressed, then the session ends and protected pages ask to sign in', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.baker.email, TEST_PASSWORD);
+      await page.getByRole('button', { name: 'Sign out' }).click();
+      await page.getByText('You are signed out.').waitFor();
+      await page.goto(`${server.baseUrl}/batches`);
+      await page.waitForURL(/\/sign-in/);
+    }));
+
+  test('when the idle limit nears, then a dialog offers to stay signed in, and it works again and again', async () => {
+    const { context, page } = await newPage(browser, VIEWPORTS.desktop);
+    try {
+      await context.clock.install();
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      for (let round = 1; round <= 2; round++) {
+        await page.clock.fastForward('28:30');
+        const dialog = page.getByRole('alertdialog', { name: 'You will be signed out soon' });
+        await dialog.waitFor();
+        await expectNoViolations(page);
+        await dialog.getByRole('button', { name: 'Stay signed in' }).click();
+        await dialog.waitFor({ state: 'hidden' });
+      }
+      await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(true);
+    } finally {
+      await context.close();
+    }
   });
+});
+
+describe('team and account pages', () => {
+  test('when the owner opens Team and submits bad input, then errors are tied to fields and axe finds nothing', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Team' }).click();
+      await page.getByRole('table', { name: 'Team members' }).waitFor();
+      await expect(page.getByRole('row', { name: new RegExp(business.members.helper.displayName) }).count()).resolves.toBe(1);
+      await expectNoViolations(page);
+
+      await page.getByRole('button', { name: 'Create invite' }).click();
+      const email = page.getByLabel('E-mail');
+      await expect(email.getAttribute('aria-invalid')).resolves.toBe('true');
+      await expectNoViolations(page);
+
+      // A server-side conflict lands on the field too.
+      await email.fill(business.members.baker.email);
+      await page.getByRole('button', { name: 'Create invite' }).click();
+      await expect.poll(() => page.getByText('That e-mail already belongs to a team member.').count()).toBe(1);
+      await expectNoViolations(page);
+
+      await email.fill(`new-${Date.now()}@test.invalid`);
+      await page.getByRole('button', { name: 'Create invite' }).click();
+      const dialog = page.getByRole('dialog', { name: 'Give them this invite code' });
+      await dialog.waitFor();
+      await expectNoViolations(page);
+      await dialog.getByRole('button', { name: 'Done' }).click();
+      await page.getByRole('table', { name: 'Invites waiting to be accepted' }).getByRole('row').nth(1).waitFor();
+    }));
+
+  test('when the account page opens, then its forms and session table pass axe', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.helper.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/account`);
+      await page.getByRole('table', { name: 'Where you are signed in' }).waitFor();
+      await page.getByRole('button', { name: 'Change password' }).click();
+      await expect(page.getByLabel('Current password').getAttribute('aria-invalid')).resolves.toBe('true');
+      await expectNoViolations(page);
+    }));
+});
+
+describe('layouts at phone, tablet and desktop widths', () => {
+  test.each(Object.entries(VIEWPORTS))('at %s width, the shell renders and the navigation works', (name, viewport) =>
+    withPage(viewport, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      await page.getByRole('heading', { name: 'Kitchen board', level: 1 }).waitFor();
+      const menu = page.getByRole('button', { name: 'Menu' });
+      const hasMenu = await menu.isVisible();
+      expect(hasMenu).toBe(name !== 'desktop');
+      if (hasMenu) {
+        await menu.click();
+        await expect(menu.getAttribute('aria-expanded')).resolves.toBe('true');
+        await expectNoViolations(page);
+        await page.screenshot({ path: path.join(SHOTS, `shell-${name}-menu.png`), fullPage: true });
+      }
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Batches' }).click();
+      await page.getByRole('heading', { name: 'Batches', level: 1 }).waitFor();
+      expect(new URL(page.url()).pathname).toBe('/batches');
+      // No sideways scrolling of the page itself (WCAG 1.4.10).
+      expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
+      await expectNoViolations(page);
+      const file = path.join(SHOTS, `shell-${name}.png`);
+      await page.screenshot({ path: file, fullPage: true });
+      expect(fs.statSync(file).size).toBeGreaterThan(5_000);
+      await page.goto(`${server.baseUrl}/team`);
+      await page.getByRole('table', { name: 'Team members' }).waitFor();
+      await page.screenshot({ path: path.join(SHOTS, `team-${name}.png`), fullPage: true });
+    }));
+
+  test('the sign-in page at phone width', () =>
+    withPage(VIEWPORTS.phone, async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`);
+      await page.getByRole('heading', { name: 'Sign in' }).waitFor();
+      const file = path.join(SHOTS, 'sign-in-phone.png');
+      await page.screenshot({ path: file, fullPage: true });
+      expect(fs.statSync(file).size).toBeGreaterThan(5_000);
+    }));
 });

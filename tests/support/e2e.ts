@@ -128,6 +128,8 @@ export const VIEWPORTS = {
 /** A fresh context (own cookies) and page; AxeBuilder needs a context page, not browser.newPage(). */
 export async function newPage(browser: Browser, viewport: { width: number; height: number } = VIEWPORTS.desktop): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext({ viewport, locale: 'en-US' });
+  // Fail fast with a clear locator message rather than at vitest's 30 s test timeout.
+  context.setDefaultTimeout(8_000);
   const page = await context.newPage();
   return { context, page };
 }

@@ -32,12 +32,12 @@ export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null })
   const [isExtending, setExtending] = useState(false);
   const [failed, setFailed] = useState('');
 
-  // The idle window as the server states it, measured once on our clock; later contacts restart it.
+  // The idle window is measured once, from the session read at page load, on our own clock (so a
+  // skewed device clock cancels out); every later answered request restarts it.
   const windowMs = useRef(0);
   useEffect(() => {
     if (!idleExpiresAt) return setDeadline(null);
-    const left = Date.parse(idleExpiresAt) - Date.now();
-    windowMs.current = Math.min(Math.max(left, 60_000), 12 * 60 * 60 * 1000);
+    if (!windowMs.current) windowMs.current = Math.min(Math.max(Date.parse(idleExpiresAt) - Date.now(), 60_000), 12 * 60 * 60 * 1000);
     setDeadline(Date.now() + windowMs.current);
   }, [idleExpiresAt]);
   useEffect(() => onServerContact(() => windowMs.current && setDeadline(Date.now() + windowMs.current)), []);
