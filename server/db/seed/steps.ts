@@ -1,5 +1,6 @@
 import type { SeedStep } from './demo';
+import { holdingSeedStep } from './holding';
 
 // Feature seed steps in dependency order (ingredients before recipes before batches, ...).
 // Each feature adds one import and one entry here.
-export const DEMO_STEPS: SeedStep[] = [];
+export const DEMO_STEPS: SeedStep[] = [holdingSeedStep];
