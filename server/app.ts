@@ -24,6 +24,9 @@ import { devicesRouter } from './features/devices/devices.routes';
 import { holdingRouter, kitchenBoardRouter, writtenProceduresRouter } from './features/holding/holding.routes';
 import { deviceActorResolver } from './features/devices/devices.service';
 import { batchesRouter } from './features/batches/batches.routes';
+import { allergenMatrixRouter, recipesRouter } from './features/recipes/recipes.routes';
+import { ruleProfilesRouter } from './features/rule-profiles/rule-profiles.routes';
+import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 
@@ -188,6 +191,10 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));
   api.use('/batches', batchesRouter(deps));
+  api.use('/recipes', recipesRouter(deps));
+  api.use('/allergen-matrix', allergenMatrixRouter(deps));
+  api.use('/rule-profiles', ruleProfilesRouter(deps));
+  api.use('/business', businessRouter(deps));
   api.use('/ingredients', ingredientsRouter(deps));
   api.use('/supplier-lots', supplierLotsRouter(deps));
 }
