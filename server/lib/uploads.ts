@@ -1,6 +1,6 @@
-import multer from 'multer';
+import multer, { MulterError } from 'multer';
 import { fileTypeFromBuffer } from 'file-type';
-import type { Response } from 'express';
+import type { RequestHandler, Response } from 'express';
 import type { Readable } from 'node:stream';
 import { HttpError } from './http-error';
 
@@ -13,11 +13,18 @@ export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
  * multer in memory with every limit set explicitly (busboy's defaults are unlimited). Memory storage
  * means an aborted upload leaves nothing on disk.
  */
-export function singleFileUpload(field = 'file', maxBytes = MAX_UPLOAD_BYTES) {
-  return multer({
+export function singleFileUpload(field = 'file', maxBytes = MAX_UPLOAD_BYTES): RequestHandler {
+  const upload = multer({
     storage: multer.memoryStorage(),
+    // Browsers send UTF-8 file names without a charset parameter; busboy's default would read them as latin1.
+    defParamCharset: 'utf8',
     limits: { fileSize: maxBytes, files: 1, fields: 10, parts: 12, fieldSize: 10_000, headerPairs: 100 },
   }).single(field);
+  // A malformed multipart body (bad part header, truncated boundary) is the sender's mistake: 400, not 500.
+  return (req, res, next) => upload(req, res, (err?: unknown) => {
+    if (!err || err instanceof MulterError || err instanceof HttpError) return next(err);
+    next(new HttpError(400, 'validation_failed', 'The upload could not be read. Choose the file again and retry.', { file: ['The upload could not be read.'] }));
+  });
 }
 
 export interface CheckedFile {
@@ -47,11 +54,11 @@ export async function checkUploadedFile(file: Express.Multer.File | undefined, a
   return { bytes: file.buffer, kind, contentType: MIME[kind], displayName: safeDisplayName(file.originalname, kind) };
 }
 
-/** Strips paths, control characters and odd punctuation from a user's file name. */
+/** Strips paths, control characters and odd punctuation from a user's file name; inner dots become "_" so no double extension survives. */
 export function safeDisplayName(original: string, kind: AllowedKind): string {
   // eslint-disable-next-line no-control-regex -- stripping control characters is the point
   const base = (original.split(/[\\/]/).pop() ?? '').replace(/[\u0000-\u001f\u007f]/g, '');
-  const stem = base.replace(/\.[^.]*$/, '').replace(/[^\p{L}\p{N} _().-]/gu, '').replace(/\.+/g, '.').trim().slice(0, 80);
+  const stem = base.replace(/\.[^.]*$/, '').replace(/[^\p{L}\p{N} _().-]/gu, '').replace(/\./g, '_').trim().slice(0, 80);
   return `${stem || 'file'}.${kind === 'jpg' ? 'jpg' : kind}`;
 }
 

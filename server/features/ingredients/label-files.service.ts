@@ -48,7 +48,7 @@ export async function addLabelFile(db: Db, storage: FileStorage, actor: Actor, i
       if (!owned) throw notFound('That ingredient');
       const [{ n }] = (await tx.select({ n: sql<number>`count(*)::int` }).from(ingredientLabelFiles).where(eq(ingredientLabelFiles.ingredientId, ingredientId))) as [{ n: number }];
       if (n >= MAX_LABEL_FILES_PER_INGREDIENT) {
-        throw new HttpError(409, 'conflict', `This ingredient already has ${MAX_LABEL_FILES_PER_INGREDIENT} label files, the most it can keep. Files are kept as evidence, so add a new ingredient version's photo to a new ingredient only if the product really changed.`, { file: [`At most ${MAX_LABEL_FILES_PER_INGREDIENT} files per ingredient.`] });
+        throw new HttpError(400, 'validation_failed', `This ingredient already has ${MAX_LABEL_FILES_PER_INGREDIENT} label files, the most it can keep. Files are kept as evidence and cannot be removed; if the product really changed, add it as a new ingredient.`, { file: [`At most ${MAX_LABEL_FILES_PER_INGREDIENT} files per ingredient.`] });
       }
       storedKey = await storage.put(file.bytes);
       const sha256 = createHash('sha256').update(file.bytes).digest('hex');
