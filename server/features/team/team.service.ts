@@ -32,6 +32,9 @@ export async function listMembers(db: Db, actor: Actor): Promise<Member[]> {
 }
 
 async function lockedMembership(tx: DbOrTx, businessId: string, userId: string) {
+  // Team changes of one business run one at a time: locking every membership row in id order
+  // avoids deadlocks and lets the last-owner check see a stable set of owners.
+  await tx.select({ id: memberships.id }).from(memberships).where(eq(memberships.businessId, businessId)).orderBy(asc(memberships.id)).for('update');
   const [row] = await tx
     .select({ id: memberships.id, role: memberships.role, isActive: memberships.isActive, displayName: users.displayName })
     .from(memberships)
@@ -44,12 +47,11 @@ async function lockedMembership(tx: DbOrTx, businessId: string, userId: string) 
 
 /** The business must always keep one active owner who can manage the team and its records. */
 async function assertAnotherActiveOwner(tx: DbOrTx, businessId: string, userId: string, doing: string) {
-  // Locks the owner rows so two owners demoting each other at once cannot both succeed.
+  // The rows are already locked by lockedMembership, so two owners demoting each other cannot both succeed.
   const owners = await tx
     .select({ userId: memberships.userId })
     .from(memberships)
-    .where(and(eq(memberships.businessId, businessId), eq(memberships.role, 'owner'), eq(memberships.isActive, true)))
-    .for('update');
+    .where(and(eq(memberships.businessId, businessId), eq(memberships.role, 'owner'), eq(memberships.isActive, true)));
   if (!owners.some((o) => o.userId !== userId)) {
     throw conflict(`You cannot ${doing} the last active owner. Make another member an owner first.`);
   }
@@ -136,7 +138,14 @@ function toInvite(row: InviteRow, invitedBy: string, now: Date): Invite {
  * Creates an invite and returns its one-time code, which exists only in this answer (the table
  * keeps its SHA-256). The mail feature calls this and e-mails `code`; the code never goes in a URL.
  */
-export async function createInvite(db: Db, actor: Actor, input: CreateInviteInput, now: Date): Promise<CreatedInvite> {
+export async function createInvite(
+  db: Db,
+  actor: Actor,
+  input: CreateInviteInput,
+  now: Date,
+  /** Runs in the same transaction (the mail feature queues the invite e-mail here). */
+  afterCreate?: (tx: DbOrTx, created: CreatedInvite) => Promise<unknown>,
+): Promise<CreatedInvite> {
   const code = newOneTimeCode();
   return db.transaction(async (tx) => {
     const [already] = await tx
@@ -160,7 +169,9 @@ export async function createInvite(db: Db, actor: Actor, input: CreateInviteInpu
       })
       .returning();
     await appendRecordEvent(tx, actor, { entityType: 'invite', entityId: row!.id, action: 'create', payload: { email: input.email, role: input.role } }, now);
-    return { invite: toInvite(row!, actor.name, now), code };
+    const created = { invite: toInvite(row!, actor.name, now), code };
+    await afterCreate?.(tx, created);
+    return created;
   });
 }
 
