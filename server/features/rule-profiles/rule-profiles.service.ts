@@ -124,13 +124,14 @@ export async function saveRuleProfileVersion(db: Db, actor: Actor, id: string, i
   if (getRuleProfile(id)) throw badRequest('Shipped profiles cannot be edited. Copy it first, then edit the copy.');
   const current = await getRuleProfileDetail(db, actor, id);
   await db.transaction(async (tx) => {
+    // Lock the identity row (versions are append-only) so two saves cannot both become version N + 1.
+    await tx.select({ id: customRuleProfiles.id }).from(customRuleProfiles).where(eq(customRuleProfiles.id, id)).for('update');
     const [head] = await tx
       .select({ version: customRuleProfileVersions.version })
       .from(customRuleProfileVersions)
       .where(eq(customRuleProfileVersions.profileId, id))
       .orderBy(desc(customRuleProfileVersions.version))
-      .limit(1)
-      .for('update');
+      .limit(1);
     const version = head!.version;
     if (input.basedOnVersion !== version) throw conflict(`Someone saved version ${version} of this profile while you were editing. Reload it and make your change again.`);
     const profile = RuleProfileSchema.parse({ ...input.profile, id, isCustom: true, basedOnId: current.profile.basedOnId });
