@@ -33,7 +33,7 @@ describe('POST /api/batches: lot codes', () => {
 
   test('when three batches are made on one day, then the sequence counts 01, 02, 03 and the next day restarts', async () => {
     const { owner, recipe, lots } = await setUp();
-    const codes = [];
+    const codes: string[] = [];
     for (const madeOn of ['2025-03-01', '2025-03-01', '2025-03-01', '2025-03-02']) {
       const res = await owner.post('/api/batches').send({ recipeVersionId: recipe.recipeVersion.id, madeOn, lots });
       codes.push(res.body.lotCode);
@@ -223,7 +223,7 @@ describe('Idempotency-Key', () => {
     const { owner, business, recipe, lots } = await setUp();
     const key = `create-${uniqueSuffix()}`;
     const body = { recipeVersionId: recipe.recipeVersion.id, madeOn: '2025-08-01', lots };
-    const sequential = [];
+    const sequential: Awaited<ReturnType<typeof owner.get>>[] = [];
     for (let i = 0; i < 3; i++) sequential.push(await owner.post('/api/batches').set('Idempotency-Key', key).send(body));
     const concurrent = await Promise.all([1, 2].map(() => owner.post('/api/batches').set('Idempotency-Key', key).send(body)));
     const all = [...sequential, ...concurrent];
@@ -298,7 +298,7 @@ describe('GET /api/batches', () => {
   test('filters by state, recipe and date range, and pages', async () => {
     const { baker, business, recipe, lots } = await setUp();
     const other = await createSimpleRecipe(t, business.businessId, ['Cocoa']);
-    const made = [];
+    const made: { id: string }[] = [];
     for (const madeOn of ['2025-05-01', '2025-05-02', '2025-05-03']) {
       made.push((await baker.post('/api/batches').send({ recipeVersionId: recipe.recipeVersion.id, madeOn, lots })).body);
     }

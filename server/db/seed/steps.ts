@@ -1,6 +1,7 @@
 import type { SeedStep } from './demo';
+import { batchesSeedStep } from './batches';
 import { holdingSeedStep } from './holding';
 
 // Feature seed steps in dependency order (ingredients before recipes before batches, ...).
 // Each feature adds one import and one entry here.
-export const DEMO_STEPS: SeedStep[] = [holdingSeedStep];
+export const DEMO_STEPS: SeedStep[] = [batchesSeedStep, holdingSeedStep];

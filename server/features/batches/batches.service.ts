@@ -78,7 +78,9 @@ interface RecipeStructure {
 }
 
 async function recipeStructure(tx: DbOrTx, businessId: string, rv: RecipeVersionRow): Promise<RecipeStructure> {
-  const [latest, ingredients] = await Promise.all([latestRecipeVersions(tx, businessId), currentIngredients(tx, businessId)]);
+  // Sequential: `tx` may be one client (a transaction), which runs one query at a time.
+  const latest = await latestRecipeVersions(tx, businessId);
+  const ingredients = await currentIngredients(tx, businessId);
   const recipes = toLookup(latest.map(toRecipeInput));
   const direct = [...new Set(rv.components.flatMap((c) => (c.kind === 'ingredient' ? [c.ingredientId] : [])))];
   const subIds = [...new Set(rv.components.flatMap((c) => (c.kind === 'recipe' ? [c.recipeId] : [])))];
@@ -312,25 +314,23 @@ export async function getBatchDetail(db: DbOrTx, actor: Pick<Actor, 'businessId'
     .innerJoin(recipeVersions, eq(recipeVersions.id, batches.recipeVersionId))
     .where(and(eq(batches.id, batchId), eq(batches.businessId, actor.businessId)));
   if (!head) throw notFound('That batch');
-  const [versionRows, inputRows, stateRows, ingredients, latest] = await Promise.all([
-    db
-      .select({ v: batchVersions, madeByName: madeByUser.displayName, createdByName: createdByUser.displayName })
-      .from(batchVersions)
-      .leftJoin(madeByUser, eq(madeByUser.id, batchVersions.madeByUserId))
-      .leftJoin(createdByUser, eq(createdByUser.id, batchVersions.createdByUserId))
-      .where(eq(batchVersions.batchId, batchId))
-      .orderBy(desc(batchVersions.version)),
-    db
-      .select({ i: batchInputs, lotCode: supplierLots.lotCode, receivedOn: supplierLots.receivedOn, sourceLotCode: sourceBatch.lotCode })
-      .from(batchInputs)
-      .leftJoin(supplierLots, eq(supplierLots.id, batchInputs.supplierLotId))
-      .leftJoin(sourceBatch, eq(sourceBatch.id, batchInputs.sourceBatchId))
-      .where(eq(batchInputs.batchId, batchId))
-      .orderBy(asc(batchInputs.createdAt), asc(batchInputs.id)),
-    db.select().from(batchStateChanges).where(eq(batchStateChanges.batchId, batchId)).orderBy(asc(batchStateChanges.changedAt), asc(batchStateChanges.createdAt)),
-    currentIngredients(db, actor.businessId),
-    latestRecipeVersions(db, actor.businessId),
-  ]);
+  const versionRows = await db
+    .select({ v: batchVersions, madeByName: madeByUser.displayName, createdByName: createdByUser.displayName })
+    .from(batchVersions)
+    .leftJoin(madeByUser, eq(madeByUser.id, batchVersions.madeByUserId))
+    .leftJoin(createdByUser, eq(createdByUser.id, batchVersions.createdByUserId))
+    .where(eq(batchVersions.batchId, batchId))
+    .orderBy(desc(batchVersions.version));
+  const inputRows = await db
+    .select({ i: batchInputs, lotCode: supplierLots.lotCode, receivedOn: supplierLots.receivedOn, sourceLotCode: sourceBatch.lotCode })
+    .from(batchInputs)
+    .leftJoin(supplierLots, eq(supplierLots.id, batchInputs.supplierLotId))
+    .leftJoin(sourceBatch, eq(sourceBatch.id, batchInputs.sourceBatchId))
+    .where(eq(batchInputs.batchId, batchId))
+    .orderBy(asc(batchInputs.createdAt), asc(batchInputs.id));
+  const stateRows = await db.select().from(batchStateChanges).where(eq(batchStateChanges.batchId, batchId)).orderBy(asc(batchStateChanges.changedAt), asc(batchStateChanges.createdAt));
+  const ingredients = await currentIngredients(db, actor.businessId);
+  const latest = await latestRecipeVersions(db, actor.businessId);
   const recipeNames = new Map(latest.map((r) => [r.recipeId, r.name]));
   const inputsOf = (versionId: string): BatchInputRow[] =>
     inputRows
@@ -399,7 +399,8 @@ export async function getLotCandidates(db: DbOrTx, actor: Pick<Actor, 'businessI
   if (!rv) throw notFound('That recipe version');
   const s = await recipeStructure(db, actor.businessId, rv);
   const all = [...new Set([...s.direct, ...s.subs.flatMap((x) => x.leafIds)])];
-  const [lots, subBatches] = await Promise.all([supplierLotsFor(db, actor.businessId, all), batchesOfRecipes(db, actor.businessId, s.subs.map((x) => x.recipeId))]);
+  const lots = await supplierLotsFor(db, actor.businessId, all);
+  const subBatches = await batchesOfRecipes(db, actor.businessId, s.subs.map((x) => x.recipeId));
   return {
     recipeVersionId: rv.id, recipeId: rv.recipeId, recipeName: rv.name, recipeVersion: rv.version, shelfLifeDays: rv.shelfLifeDays,
     ingredients: all.map((id) => ({
@@ -422,7 +423,8 @@ export async function getBatchLotCandidates(db: DbOrTx, actor: Pick<Actor, 'busi
 
 /** Recipes and their versions (not archived), for choosing what a new batch makes. */
 export async function listBatchRecipeOptions(db: DbOrTx, actor: Pick<Actor, 'businessId'>): Promise<BatchRecipeOptions> {
-  const [versions, latest] = await Promise.all([allRecipeVersions(db, actor.businessId), latestRecipeVersions(db, actor.businessId)]);
+  const versions = await allRecipeVersions(db, actor.businessId);
+  const latest = await latestRecipeVersions(db, actor.businessId);
   return {
     recipes: latest
       .filter((l) => !l.isArchived)
