@@ -29,6 +29,7 @@ import { ruleProfilesRouter } from './features/rule-profiles/rule-profiles.route
 import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
+import { sentMailRouter } from './features/mail/mail.routes';
 
 export interface AppConfig {
   publicBaseUrl: string;
@@ -50,6 +51,8 @@ export interface AppConfig {
   signInLimitPerAddress: number;
   /** Length of the sign-in throttling window; 15 minutes unless a test shortens it. */
   signInWindowMs: number;
+  /** True when mail goes to the local SMTP stand-in (no SMTP_URL): the Sent mail page shows it. */
+  mailCapturing?: boolean;
 }
 
 export interface AppDeps {
@@ -187,6 +190,7 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/account', accountRouter(deps));
   api.use('/team', teamRouter(deps));
   api.use('/devices', devicesRouter(deps));
+  api.use('/sent-mail', sentMailRouter(deps));
   api.use('/holding-periods', holdingRouter(deps));
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));

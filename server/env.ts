@@ -16,6 +16,8 @@ const EnvSchema = z.object({
   UPLOAD_DIR: z.string().optional(),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Crumbtrail <no-reply@crumbtrail.invalid>'),
+  /** Port of the local SMTP stand-in used when SMTP_URL is not set (0 = any free port). */
+  MAIL_CAPTURE_PORT: z.coerce.number().int().min(0).max(65535).default(0),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

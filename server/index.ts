@@ -5,11 +5,19 @@ import { createApp, defaultConfig } from './app';
 import { sql } from 'drizzle-orm';
 import { DEMO_ACCOUNTS } from './db/seed/demo-accounts';
 import { sweepPartialUploads } from './lib/storage';
+import { startMailCapture, type MailCapture } from './features/mail/mail-capture';
+import { createMailTransport, runMailOnce } from './features/mail/mail.service';
+import { startBackgroundJobs } from './features/mail/background-jobs';
 
 const env = readEnv();
 const logger = createLogger(env.LOG_LEVEL);
 const pool = createPool(env.DATABASE_URL, logger);
 const db = createDb(pool);
+
+// Without a real SMTP server, mail goes to a local stand-in and shows on the owner's Sent mail page.
+const mailCapture: MailCapture | undefined = env.SMTP_URL ? undefined : await startMailCapture({ db, port: env.MAIL_CAPTURE_PORT, logger });
+const mailTransport = createMailTransport(env.SMTP_URL ?? `smtp://127.0.0.1:${mailCapture!.port}`);
+if (mailCapture) logger.info({ event: 'mail_capture_start', port: mailCapture.port }, 'no SMTP_URL: mail is captured locally (Sent mail page)');
 
 async function warnIfNotDurable() {
   // Records are legal evidence: these must stay on outside throw-away test clusters.
@@ -40,12 +48,18 @@ const app = createApp({
     ...(env.UPLOAD_DIR ? { uploadDir: env.UPLOAD_DIR } : {}),
     staticDir: 'dist',
     demoAccounts: env.DEMO_MODE ? DEMO_ACCOUNTS : [],
+    mailCapturing: !env.SMTP_URL,
   }),
 });
 
 await warnIfNotDurable();
 const swept = await sweepPartialUploads(env.UPLOAD_DIR ?? `${env.DATA_DIR}/uploads`);
 if (swept) logger.info({ event: 'uploads_swept', count: swept }, 'removed partial uploads left by a crash');
+const now = () => new Date();
+const backgroundJobs = startBackgroundJobs(
+  [{ name: 'mail', run: () => runMailOnce({ db, now, transport: mailTransport, from: env.MAIL_FROM, logger }) }],
+  { intervalMs: 15_000, logger },
+);
 const server = app.listen(env.PORT, env.HOST, () => {
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : env.PORT;
@@ -60,6 +74,8 @@ async function shutdown(signal: string, code = 0) {
   logger.info({ event: 'app_stop', signal }, 'shutting down');
   server.close();
   server.closeAllConnections?.();
+  await backgroundJobs.stop();
+  await mailCapture?.close();
   await pool.end().catch(() => undefined);
   process.exit(code);
 }

@@ -25,6 +25,7 @@ import {
 } from './team.service';
 import { destroySession, startMemberSession } from '../auth/session-helpers';
 import { buildSessionInfo } from '../auth/session-info';
+import { queueInviteMail } from '../mail/mail-messages';
 
 export function teamRouter(deps: AppDeps) {
   const { db, config } = deps;
@@ -67,7 +68,9 @@ export function teamRouter(deps: AppDeps) {
     })
     .post('/invites', allow('owner'), async (req, res) => {
       const input = CreateInviteInputSchema.parse(req.body);
-      res.status(201).json(await createInvite(db, actorOf(req.actor), input, deps.now()));
+      const actor = actorOf(req.actor);
+      const now = deps.now();
+      res.status(201).json(await createInvite(db, actor, input, now, (tx, created) => queueInviteMail(tx, actor, created, config.publicBaseUrl, now)));
     })
     .delete('/invites/:inviteId', allow('owner'), async (req, res) => {
       const { inviteId } = InviteParamsSchema.parse(req.params);
