@@ -2,7 +2,12 @@ import { z } from 'zod';
 import { HoldingPeriodSchema } from './holding';
 
 /** Running holding timers, anything over a limit first. */
-export const HoldingTimersSectionSchema = z.object({ kind: z.literal('holding_timers'), periods: z.array(HoldingPeriodSchema) });
+export const HoldingTimersSectionSchema = z.object({
+  kind: z.literal('holding_timers'),
+  periods: z.array(HoldingPeriodSchema),
+  /** Batches a timer can be started for (in progress, released or held), for the start dialog. */
+  batchOptions: z.array(z.object({ id: z.string(), lotCode: z.string(), productName: z.string(), state: z.string() })),
+});
 
 /** Batches still being made (state 'in_progress'), newest first. */
 export const BatchesInProgressSectionSchema = z.object({

@@ -1,4 +1,4 @@
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, inArray } from 'drizzle-orm';
 import type { Db } from '../../db/client';
 import type { Actor } from '../../lib/actor';
 import { batches } from '../../db/schema/batches';
@@ -35,7 +35,14 @@ export const holdingTimersSection: KitchenBoardSectionProvider = {
   async load(db, actor, now) {
     const periods = (await loadHoldingPeriods(db, actor.businessId, { runningOnly: true, includeUnresolved: true }, now)).filter((p) => !p.stopped || p.needsAction);
     await noticeHoldingViolations(db, actor.businessId, periods, now);
-    return { kind: 'holding_timers', periods };
+    const batchOptions = await db
+      .select({ id: batches.id, lotCode: batches.lotCode, productName: recipeVersions.name, state: batches.state })
+      .from(batches)
+      .innerJoin(recipeVersions, eq(recipeVersions.id, batches.recipeVersionId))
+      .where(and(eq(batches.businessId, actor.businessId), inArray(batches.state, ['in_progress', 'released', 'held'])))
+      .orderBy(desc(batches.madeOn), desc(batches.createdAt))
+      .limit(100);
+    return { kind: 'holding_timers', periods, batchOptions };
   },
 };
 
