@@ -55,12 +55,15 @@ function withParams(url: string, params?: Params): string {
   return qs ? `${url}${url.includes('?') ? '&' : '?'}${qs}` : url;
 }
 
-async function ensureCsrfToken(): Promise<string> {
-  if (csrfToken) return csrfToken;
+async function readSessionToken(): Promise<string> {
   const res = await fetch('/api/auth/session', { credentials: 'same-origin', headers: { Accept: 'application/json' } });
   const body = (await res.json().catch(() => ({}))) as { csrfToken?: unknown };
   if (typeof body.csrfToken === 'string') csrfToken = body.csrfToken;
   return csrfToken;
+}
+
+async function ensureCsrfToken(): Promise<string> {
+  return csrfToken || readSessionToken();
 }
 
 async function toApiError(res: Response): Promise<ApiError> {
@@ -74,7 +77,7 @@ async function toApiError(res: Response): Promise<ApiError> {
   return new ApiError(res.status, code, res.status >= 500 ? 'The server could not finish that. Try again in a moment.' : `The request failed (${res.status}).`);
 }
 
-async function send<S extends z.ZodType>(method: string, url: string, schema: S | null, body: unknown, options: RequestOptions = {}): Promise<z.infer<S>> {
+async function send<S extends z.ZodType>(method: string, url: string, schema: S | null, body: unknown, options: RequestOptions = {}, isRetry = false): Promise<z.infer<S>> {
   const headers: Record<string, string> = { Accept: 'application/json', ...options.headers };
   const isWrite = method !== 'GET';
   if (isWrite) headers['X-CSRF-Token'] = await ensureCsrfToken();
@@ -92,6 +95,15 @@ async function send<S extends z.ZodType>(method: string, url: string, schema: S 
     throw new ApiError(0, 'network', 'Could not reach Crumbtrail. Check the connection and try again.');
   }
   contactListeners.forEach((l) => l());
+  if (res.status === 403 && isWrite && !isRetry) {
+    // A write refused as forbidden may just carry a stale CSRF token (the session ended or was
+    // reissued): if the session now has another token, retry once. An ended session then answers 401.
+    const sent = headers['X-CSRF-Token'];
+    const error = await toApiError(res);
+    const now = await readSessionToken().catch(() => undefined);
+    if (now && now !== sent) return send(method, url, schema, body, options, true);
+    throw error;
+  }
   if (!res.ok) throw await toApiError(res);
   if (res.status === 204 || schema === null) return undefined as z.infer<S>;
   const json: unknown = await res.json().catch(() => undefined);

@@ -179,6 +179,25 @@ describe('team and account pages', () => {
       await page.getByRole('table', { name: 'Invites waiting to be accepted' }).getByRole('row').nth(1).waitFor();
     }));
 
+  test('when the session ends while typing, then signing in again comes back with the input kept', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/team`);
+      const typed = `kept-${Date.now()}@test.invalid`;
+      await page.getByLabel('E-mail').fill(typed);
+      await page.getByLabel('Role', { exact: true }).selectOption('baker');
+      await server.t.pool.query(`DELETE FROM user_sessions WHERE sess->>'userId' = $1`, [business.members.owner.userId]);
+      await page.getByRole('button', { name: 'Create invite' }).click();
+      await page.waitForURL(/\/sign-in\?next=%2Fteam&reason=expired/);
+      await page.getByText('Your session ended').waitFor();
+      await page.getByLabel('E-mail').fill(business.members.owner.email);
+      await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
+      await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+      await page.getByRole('heading', { name: 'Team', level: 1 }).waitFor();
+      await expect.poll(() => page.getByLabel('E-mail').inputValue()).toBe(typed);
+      await expect(page.getByLabel('Role', { exact: true }).inputValue()).resolves.toBe('baker');
+    }));
+
   test('when the account page opens, then its forms and session table pass axe', () =>
     withPage(VIEWPORTS.desktop, async (page) => {
       await signInInBrowser(page, server.baseUrl, business.members.helper.email, TEST_PASSWORD);
@@ -215,6 +234,8 @@ describe('layouts at phone, tablet and desktop widths', () => {
       expect(fs.statSync(file).size).toBeGreaterThan(5_000);
       await page.goto(`${server.baseUrl}/team`);
       await page.getByRole('table', { name: 'Team members' }).waitFor();
+      // Tables may scroll inside their own box (WCAG 1.4.10 exempts data tables), never the page.
+      expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
       await page.screenshot({ path: path.join(SHOTS, `team-${name}.png`), fullPage: true });
     }));
 

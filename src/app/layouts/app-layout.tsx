@@ -82,7 +82,7 @@ export function AppLayout() {
         Skip to main content
       </a>
       <header className="sticky top-0 z-30 border-b border-hairline bg-surface" data-print="hide">
-        <div className="flex items-center gap-3 px-4 py-2">
+        <div className="flex min-h-16 items-center gap-3 px-4 py-2">
           <button
             type="button"
             className="inline-flex min-h-11 items-center gap-2 rounded-control border border-edge px-3 font-bold lg:hidden"
@@ -113,7 +113,7 @@ export function AppLayout() {
         ) : null}
       </header>
       <div className="lg:flex">
-        <nav aria-label="Main" className="hidden w-60 shrink-0 border-r border-hairline bg-surface px-3 py-4 lg:sticky lg:top-[61px] lg:block lg:h-[calc(100vh-61px)] lg:overflow-y-auto">
+        <nav aria-label="Main" className="hidden w-60 shrink-0 border-r border-hairline bg-surface px-3 py-4 lg:sticky lg:top-16 lg:block lg:h-[calc(100vh-4rem)] lg:overflow-y-auto">
           <NavList items={items} layout="sidebar" />
         </nav>
         <main id="main" ref={mainRef} tabIndex={-1} className="min-w-0 flex-1 px-4 py-6 sm:px-6 lg:px-10">

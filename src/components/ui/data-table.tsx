@@ -64,7 +64,8 @@ export function DataTable<T>({ caption, isCaptionHidden, columns, data, getRowId
           <input id={searchId} type="search" value={globalFilter} onChange={(e) => setGlobalFilter(e.target.value)} className={controlClasses} />
         </div>
       ) : null}
-      <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+      {/* relative: keeps sr-only text inside cells from widening the page. */}
+      <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
         <table className="w-full border-collapse text-left">
           <caption className={cn('px-4 py-3 text-left text-lg font-bold', isCaptionHidden && 'sr-only')}>{caption}</caption>
           <thead className="bg-flour">
