@@ -1,7 +1,8 @@
 import type { SeedStep } from './demo';
+import { recipesSeedStep } from './recipes';
 import { batchesSeedStep } from './batches';
 import { holdingSeedStep } from './holding';
 
 // Feature seed steps in dependency order (ingredients before recipes before batches, ...).
 // Each feature adds one import and one entry here.
-export const DEMO_STEPS: SeedStep[] = [batchesSeedStep, holdingSeedStep];
+export const DEMO_STEPS: SeedStep[] = [recipesSeedStep, batchesSeedStep, holdingSeedStep];
