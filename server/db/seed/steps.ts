@@ -1,8 +1,9 @@
 import type { SeedStep } from './demo';
+import { ingredientsSeedStep } from './ingredients';
 import { recipesSeedStep } from './recipes';
 import { batchesSeedStep } from './batches';
 import { holdingSeedStep } from './holding';
 
 // Feature seed steps in dependency order (ingredients before recipes before batches, ...).
 // Each feature adds one import and one entry here.
-export const DEMO_STEPS: SeedStep[] = [recipesSeedStep, batchesSeedStep, holdingSeedStep];
+export const DEMO_STEPS: SeedStep[] = [ingredientsSeedStep, recipesSeedStep, batchesSeedStep, holdingSeedStep];
