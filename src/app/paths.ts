@@ -2,6 +2,7 @@
 export const paths = {
   kitchen: '/',
   batches: '/batches',
+  batchNew: '/batches/new',
   recipes: '/recipes',
   ingredients: '/ingredients',
   cleaning: '/cleaning',
@@ -31,3 +32,6 @@ export function signInPath(next?: string, reason?: 'expired' | 'signed-out'): st
 export function isSafeNext(next: string | null | undefined): next is string {
   return !!next && next.startsWith('/') && !next.startsWith('//') && !next.startsWith('/\\');
 }
+
+/** The page of one batch. */
+export const batchPath = (id: string) => `/batches/${id}`;

@@ -53,6 +53,8 @@ export function createAppRouter(qc: QueryClient) {
           children: [
             { index: true, ...page(qc, () => import('./routes/kitchen/kitchen-board')) },
             { path: 'batches', ...page(qc, () => import('./routes/batches/batch-list')) },
+            { path: 'batches/new', ...page(qc, () => import('./routes/batches/batch-new')) },
+            { path: 'batches/:batchId', ...page(qc, () => import('./routes/batches/batch-page')) },
             { path: 'recipes', ...page(qc, () => import('./routes/recipes/recipe-list')) },
             { path: 'ingredients', ...page(qc, () => import('./routes/ingredients/ingredient-list')) },
             { path: 'cleaning', ...page(qc, () => import('./routes/cleaning/cleaning-log')) },
