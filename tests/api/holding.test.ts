@@ -5,6 +5,7 @@ import { ApiAgent, businessWithAgents, createTestBusiness, signedInAgent, type T
 import { createBatch, createSimpleRecipe } from '../support/factories';
 import { batches } from '../../server/db/schema/batches';
 import { recordEvents } from '../../server/db/schema/record-events';
+import { mailOutbox } from '../../server/db/schema/mail';
 import { startHoldingPeriod } from '../../server/features/holding/holding.service';
 import { hasUnresolvedHoldingViolation } from '../../server/features/holding/holding.queries';
 import type { Actor } from '../../server/lib/actor';
@@ -202,6 +203,10 @@ describe('holding periods', () => {
     // The owner's alert was noticed once, as a record event.
     const notices = await t.db.select().from(recordEvents).where(eq(recordEvents.idempotencyKey, `holding-violation-notice:${p.id}`));
     expect(notices).toHaveLength(1);
+    const mail = await t.db.select().from(mailOutbox).where(eq(mailOutbox.dedupeKey, `holding-violation:${p.id}:${business.members.owner.userId}`));
+    expect(mail).toHaveLength(1);
+    expect(mail[0]).toMatchObject({ toAddress: business.members.owner.email, kind: 'holding_alert' });
+    expect(mail[0]!.textBody).toMatch(/Discard the food/);
   });
 
   test('a failed first cooling stage may be reheated; then the batch can be released (3-501.14(A)(1))', async () => {

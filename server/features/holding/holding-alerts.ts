@@ -1,4 +1,7 @@
+import { and, eq } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
+import { memberships, users } from '../../db/schema/auth';
+import { queueMail } from '../mail/mail.service';
 import type { Actor } from '../../lib/actor';
 import { appendRecordEvent, findByIdempotencyKey } from '../records/record-events.service';
 import type { HoldingPeriod } from '../../../shared/contracts/holding';
@@ -19,11 +22,36 @@ export interface HoldingViolationNotice {
   messages: string[];
 }
 
+const ACTION_WORDS = { discard: 'Discard the food.', reheat_or_discard: 'Reheat the food or discard it.', record_reason: 'Record why the food was still fine to use, or discard it.' } as const;
+
 /**
- * Hook for the owner's e-mail alert, called once per violation inside the transaction that records
- * the notice. The mail queue has no table yet, so this only returns for now.
+ * E-mails every active owner about one violation (queued in the caller's transaction, one message per
+ * owner and period ever). Called once per violation by noticeHoldingViolations.
  */
-export async function notifyHoldingViolation(_tx: DbOrTx, _notice: HoldingViolationNotice, _now: Date): Promise<void> {}
+export async function notifyHoldingViolation(tx: DbOrTx, notice: HoldingViolationNotice, now: Date): Promise<void> {
+  const owners = await tx
+    .select({ userId: users.id, email: users.email, name: users.displayName })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(and(eq(memberships.businessId, notice.businessId), eq(memberships.role, 'owner'), eq(memberships.isActive, true)));
+  const text = [
+    `A holding timer went over its limit: ${notice.productName}, lot ${notice.lotCode}.`,
+    '',
+    `Limit: ${notice.policyName}${notice.deadlineAtLocal ? `, deadline ${notice.deadlineAtLocal}` : ''}.`,
+    ...notice.messages,
+    '',
+    `What to do: ${ACTION_WORDS[notice.requiredAction]} Record it on the Kitchen board; the batch cannot be released or labelled until you do.`,
+    '',
+    'These are model FDA Food Code values; your local rules and your local health authority decide.',
+  ].join('\n');
+  for (const owner of owners) {
+    await queueMail(tx, {
+      businessId: notice.businessId, to: owner.email, kind: 'holding_alert',
+      subject: `Holding limit passed: ${notice.productName} (${notice.lotCode})`, text,
+      dedupeKey: `holding-violation:${notice.periodId}:${owner.userId}`,
+    }, now);
+  }
+}
 
 const noticeKey = (periodId: string) => `holding-violation-notice:${periodId}`;
 

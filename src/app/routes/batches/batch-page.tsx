@@ -6,6 +6,8 @@ import type { BatchInputRow } from '@shared/contracts/batches';
 import { batchQueries } from '@/features/batches/api';
 import { BatchStateBadge, BATCH_STATE_LABELS } from '@/features/batches/components/batch-state-badge';
 import { BatchSections } from '@/features/batches/components/batch-sections';
+// Fills the batch page's holding section.
+import '@/features/holding/components/batch-holding-section';
 import { StateChangeDialog } from '@/features/batches/components/state-change-dialog';
 import { CorrectionForm } from '@/features/batches/components/batch-form';
 import { useSession } from '@/features/auth/api';
