@@ -1,0 +1,1 @@
+SELECT crumbtrail_make_append_only('label_print_runs');
