@@ -135,12 +135,17 @@ describe('signed-in shell', () => {
     try {
       await context.clock.install();
       await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      // A screen that does not poll: any answered request restarts the server's idle timer, and the warning with it.
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Account' }).click();
+      await page.getByRole('table', { name: 'Where you are signed in' }).waitFor();
       for (let round = 1; round <= 2; round++) {
         await page.clock.fastForward('28:30');
         const dialog = page.getByRole('alertdialog', { name: 'You will be signed out soon' });
         await dialog.waitFor();
         await expectNoViolations(page);
+        const extended = page.waitForResponse((r) => r.url().endsWith('/api/auth/session') && r.status() === 200);
         await dialog.getByRole('button', { name: 'Stay signed in' }).click();
+        expect(((await (await extended).json()) as { user: unknown }).user).not.toBeNull();
         await dialog.waitFor({ state: 'hidden' });
       }
       await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(true);
