@@ -15,7 +15,6 @@ import type { TestBusiness } from '../support/agents';
 const t = makeTestApp();
 
 let business: TestBusiness;
-let owner: ApiAgent;
 let baker: ApiAgent;
 let helper: ApiAgent;
 const ing: Record<string, string> = {};
@@ -49,7 +48,7 @@ const pops = (baseId: string) => ({
 });
 
 beforeAll(async () => {
-  ({ business, owner, baker, helper } = await businessWithAgents(t));
+  ({ business, baker, helper } = await businessWithAgents(t));
   // Invented ingredients (test data), declared as on their packages.
   ing.flour = (await createIngredient(t, business.businessId, { labelName: 'Wheat flour', subIngredients: ['wheat flour', 'niacin'], allergens: [{ source: 'wheat' }] })).id;
   ing.sugar = (await createIngredient(t, business.businessId, { labelName: 'Sugar' })).id;
