@@ -2,7 +2,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, VIEWPORTS, type E2eServer } from '../support/e2e';
+import { AxeBuilder } from '@axe-core/playwright';
+import { AXE_TAGS, checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, VIEWPORTS, type E2eServer } from '../support/e2e';
 import { createTestBusiness, TEST_PASSWORD, type TestBusiness } from '../support/agents';
 
 let server: E2eServer;
@@ -103,6 +104,14 @@ describe('signed-in shell', () => {
       await expect(page.getByText(business.name).first().isVisible()).resolves.toBe(true);
       await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(true);
       await expectNoViolations(page);
+    }));
+
+  test('the installed axe really runs the 24 px target-size rule on the shell', () =>
+    withPage(VIEWPORTS.phone, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      const results = await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze();
+      expect([...results.passes, ...results.violations].map((r) => r.id)).toContain('target-size');
+      expect(results.violations).toEqual([]);
     }));
 
   test('when a helper opens the team screen by address, then it says the screen is not for their role', () =>
