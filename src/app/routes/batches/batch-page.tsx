@@ -1,4 +1,4 @@
-import { useState, type ReactNode } from 'react';
+import { useId, useState, type ReactNode } from 'react';
 import { useQuery, useSuspenseQuery, type QueryClient } from '@tanstack/react-query';
 import { Link, useParams, type LoaderFunctionArgs } from 'react-router';
 import { formatZonedDateTime } from '@shared/domain/zoned-time';
@@ -38,12 +38,15 @@ function InputLine({ input }: { input: BatchInputRow }) {
   );
 }
 
-const Card = ({ title, children }: { title: string; children: ReactNode }) => (
-  <section aria-labelledby={`batch-${title}`} className="rounded-card border border-hairline bg-surface p-4 sm:p-6">
-    <h2 id={`batch-${title}`} className="text-xl font-bold">{title}</h2>
-    <div className="mt-3">{children}</div>
-  </section>
-);
+function Card({ title, children }: { title: string; children: ReactNode }) {
+  const id = useId();
+  return (
+    <section aria-labelledby={id} className="rounded-card border border-hairline bg-surface p-4 sm:p-6">
+      <h2 id={id} className="text-xl font-bold">{title}</h2>
+      <div className="mt-3">{children}</div>
+    </section>
+  );
+}
 
 export function Component() {
   const { batchId } = useParams();
