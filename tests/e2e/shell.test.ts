@@ -253,6 +253,18 @@ describe('layouts at phone, tablet and desktop widths', () => {
       await page.screenshot({ path: path.join(SHOTS, `team-${name}.png`), fullPage: true });
     }));
 
+  test('when printed, then the header and navigation are left out', () =>
+    withPage(VIEWPORTS.desktop, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/team`);
+      await page.getByRole('table', { name: 'Team members' }).waitFor();
+      await page.emulateMedia({ media: 'print' });
+      await expect(page.getByRole('navigation', { name: 'Main' }).isVisible()).resolves.toBe(false);
+      await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(false);
+      await expect(page.evaluate(() => getComputedStyle(document.querySelector('thead')!).display)).resolves.toBe('table-header-group');
+      await expect(page.getByRole('table', { name: 'Team members' }).isVisible()).resolves.toBe(true);
+    }));
+
   test('the sign-in page at phone width', () =>
     withPage(VIEWPORTS.phone, async (page) => {
       await page.goto(`${server.baseUrl}/sign-in`);

@@ -35,6 +35,20 @@ function hashInputs(): string {
 
 let building: Promise<string> | undefined;
 
+// Builds of older sources pile up in the temp folder; drop those not touched for a day.
+function removeOldBuilds() {
+  const dayAgo = Date.now() - 24 * 60 * 60 * 1000;
+  for (const name of fs.readdirSync(os.tmpdir())) {
+    if (!name.startsWith('crumbtrail-e2e-')) continue;
+    const full = path.join(os.tmpdir(), name);
+    try {
+      if (fs.statSync(full).mtimeMs < dayAgo) fs.rmSync(full, { recursive: true, force: true });
+    } catch {
+      // Another run removed it first.
+    }
+  }
+}
+
 /**
  * Builds the client once per set of sources. Each process builds into its own fresh temp folder and
  * renames it into place; a rename that loses the race (folder already there) just uses the winner's.
@@ -44,6 +58,7 @@ export function buildClient(): Promise<string> {
   building ??= (async () => {
     const target = path.join(os.tmpdir(), `crumbtrail-e2e-build-${hashInputs()}`);
     if (fs.existsSync(path.join(target, 'index.html'))) return target;
+    removeOldBuilds();
     const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'crumbtrail-e2e-tmp-'));
     await run(path.join(ROOT, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], {
       cwd: ROOT,
