@@ -17,13 +17,13 @@ const OWNER: readonly Role[] = ['owner'];
 /**
  * The one list of signed-in screens, in menu order. Owners see everything; bakers run production
  * (recipes, ingredients, batches and holding, labels, sales); helpers work the kitchen board, read
- * batches and recipes, and do the cleaning.
+ * batches, recipes and ingredients, and do the cleaning.
  */
 export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Kitchen board', to: paths.kitchen, icon: 'board', roles: ALL },
   { label: 'Batches', to: paths.batches, icon: 'batch', roles: ALL },
   { label: 'Recipes', to: paths.recipes, icon: 'recipe', roles: ALL },
-  { label: 'Ingredients', to: paths.ingredients, icon: 'ingredient', roles: EDITORS },
+  { label: 'Ingredients', to: paths.ingredients, icon: 'ingredient', roles: ALL },
   { label: 'Cleaning', to: paths.cleaning, icon: 'cleaning', roles: ALL },
   { label: 'Labels', to: paths.labels, icon: 'label', roles: EDITORS },
   { label: 'Sales', to: paths.sales, icon: 'sales', roles: EDITORS },
