@@ -37,3 +37,16 @@ export function packageNetGrams(pieceGrams: Grams | null | undefined, piecesPerP
   if (pieceGrams == null || pieceGrams === '' || piecesPerPackage == null || piecesPerPackage <= 0) return null;
   return new Dec(pieceGrams).times(piecesPerPackage).toFixed();
 }
+
+/**
+ * A stored gram weight as an amount a person can edit (at most 6 decimals, as the editor accepts): grams when
+ * exact, else ounces or pounds when those are exact (28.349523125 g → 1 oz), else grams to 6 decimals.
+ */
+export function editableWeight(grams: Grams): { amount: string; unit: WeightUnit } {
+  const fits = (s: string) => !s.includes('.') || s.split('.')[1]!.length <= 6;
+  for (const unit of ['g', 'oz', 'lb'] as const) {
+    const amount = fromGrams(grams, unit);
+    if (fits(amount)) return { amount, unit };
+  }
+  return { amount: new Dec(grams).toDecimalPlaces(6).toFixed(), unit: 'g' };
+}

@@ -21,7 +21,7 @@ import { flattenRecipe, RecipeFlattenError } from '../../../shared/domain/recipe
 import {
   diffLabelText, labelTextForRecipe, recipeInputOf, summariseLabelText, type RecipeVersionForLabel,
 } from '../../../shared/domain/recipe-label';
-import { normaliseGrams, packageNetGrams, toGrams } from '../../../shared/domain/weight-units';
+import { editableWeight, normaliseGrams, packageNetGrams, toGrams } from '../../../shared/domain/weight-units';
 
 const grams = (w: WeightInput | null) => (w ? toGrams(w.amount, w.unit) : null);
 // The columns hold pH to 0.01 and aw to 0.001; rounding first keeps the snapshot equal to what is read back.
@@ -90,7 +90,7 @@ function componentViews(v: RecipeVersionRow, sources: LabelSources): RecipeCompo
     ingredientId: c.kind === 'ingredient' ? c.ingredientId : null,
     recipeId: c.kind === 'recipe' ? c.recipeId : null,
     grams: c.grams,
-    entered: c.entered ?? { amount: c.grams, unit: 'g' },
+    entered: c.entered ?? editableWeight(c.grams),
     name: c.kind === 'ingredient' ? sources.ingredients.get(c.ingredientId)?.labelName ?? 'Unknown ingredient' : sources.rows.get(c.recipeId)?.name ?? 'Unknown recipe',
   }));
 }

@@ -5,7 +5,7 @@ import { useQuery } from '@tanstack/react-query';
 import { RECIPE_HOLDING_POLICIES, RecipeVersionInputSchema, SaveRecipeVersionInputSchema, type RecipeVersion } from '@shared/contracts/recipes';
 import type { RecipeComponent } from '@shared/domain/recipe-flatten';
 import type { RecipeVersionForLabel } from '@shared/domain/recipe-label';
-import { toGrams, WEIGHT_UNITS, type WeightUnit } from '@shared/domain/weight-units';
+import { editableWeight, toGrams, WEIGHT_UNITS, type WeightUnit } from '@shared/domain/weight-units';
 import { Button } from '@/components/ui/button';
 import { Checkbox } from '@/components/ui/checkbox';
 import { Field, FormError } from '@/components/ui/field';
@@ -82,7 +82,7 @@ function toDraft(recipeId: string, v: RecipeFormValues): RecipeVersionForLabel {
 }
 
 function initialValues(current: RecipeVersion | null): RecipeFormValues {
-  const w = (g: string | null): WeightField => ({ amount: g ?? '', unit: 'g' });
+  const w = (g: string | null): WeightField => (g === null ? { amount: '', unit: 'g' } : editableWeight(g));
   const s = (n: number | null) => (n === null ? '' : String(n));
   return {
     name: current?.name ?? '',

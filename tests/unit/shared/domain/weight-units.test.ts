@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { fromGrams, packageNetGrams, toGrams } from '../../../../shared/domain/weight-units';
+import { editableWeight, fromGrams, packageNetGrams, toGrams } from '../../../../shared/domain/weight-units';
 import { diffLabelText, type LabelTextSummary } from '../../../../shared/domain/recipe-label';
 
 describe('toGrams', () => {
@@ -19,6 +19,12 @@ describe('toGrams', () => {
   test('round-trips to the typed amount', () => {
     expect(fromGrams(toGrams('8', 'oz'), 'oz')).toBe('8');
     expect(fromGrams(toGrams('1.75', 'lb'), 'lb')).toBe('1.75');
+  });
+
+  test('a stored weight is offered for editing in a unit that keeps it exact within 6 decimals', () => {
+    expect(editableWeight('28.349523125')).toEqual({ amount: '1', unit: 'oz' });
+    expect(editableWeight('453.59237')).toEqual({ amount: '453.59237', unit: 'g' });
+    expect(editableWeight('42.5242846875')).toEqual({ amount: '1.5', unit: 'oz' });
   });
 
   test('refuses negative or non-numeric amounts', () => {
