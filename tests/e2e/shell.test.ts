@@ -253,6 +253,15 @@ describe('layouts at phone, tablet and desktop widths', () => {
       await page.screenshot({ path: path.join(SHOTS, `team-${name}.png`), fullPage: true });
     }));
 
+  test('at 320 px wide (WCAG 1.4.10 reflow), the header and account forms fit without sideways scrolling', () =>
+    withPage({ width: 320, height: 640 }, async (page) => {
+      await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/account`);
+      await page.getByRole('heading', { name: 'Change password' }).waitFor();
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(320);
+      await expect(page.getByRole('button', { name: 'Sign out' }).isVisible()).resolves.toBe(true);
+    }));
+
   test('when printed, then the header and navigation are left out', () =>
     withPage(VIEWPORTS.desktop, async (page) => {
       await signInInBrowser(page, server.baseUrl, business.members.owner.email, TEST_PASSWORD);
