@@ -30,6 +30,10 @@ import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 import { sentMailRouter } from './features/mail/mail.routes';
+import { calendarFeedPublicRoute, calendarFeedsRouter, documentsRouter } from './features/documents/documents.routes';
+import { inspectorExchangeRoute, inspectorLinksRouter, inspectorRouter, noReferrer } from './features/inspector/inspector.routes';
+import { inspectorActorResolver } from './features/inspector/inspector-links.service';
+import { allow } from './middleware/access';
 
 export interface AppConfig {
   publicBaseUrl: string;
@@ -100,7 +104,7 @@ export function createApp(input: CreateAppInput) {
   const deps: AppDeps = {
     ...input,
     // Kitchen devices are always resolvable; tests or features may add others (inspector links).
-    actorResolvers: { ...input.actorResolvers, device: deviceActorResolver },
+    actorResolvers: { ...input.actorResolvers, device: deviceActorResolver, inspector: inspectorActorResolver },
     storage: input.storage ?? localDiskStorage(config.uploadDir),
     limits: {
       // Counts failures only, per account: a real user is never locked out for more than the window.
@@ -150,25 +154,25 @@ export function createApp(input: CreateAppInput) {
     next();
   });
   api.use(express.json({ limit: '1mb' }));
-  api.use(
-    session({
-      name: config.cookieName,
-      secret: config.sessionSecret,
-      store: new PgStore({ pool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      proxy: config.trustProxy,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, path: '/', maxAge: IDLE_TIMEOUT_MS },
-    }),
-  );
+  // Also used by the inspector link exchange outside /api, which starts a session.
+  const sessionMiddleware = session({
+    name: config.cookieName,
+    secret: config.sessionSecret,
+    store: new PgStore({ pool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    proxy: config.trustProxy,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, path: '/', maxAge: IDLE_TIMEOUT_MS },
+  });
+  api.use(sessionMiddleware);
   api.use(csrfProtection([new URL(config.publicBaseUrl).origin]));
   api.use(loadActor(input.db, input.now, deps.actorResolvers));
   mountApiRoutes(api, deps);
   api.use(apiNotFound);
   app.use('/api', api);
 
-  mountPublicRoutes(app, deps);
+  mountPublicRoutes(app, deps, sessionMiddleware);
 
   if (config.staticDir && fs.existsSync(config.staticDir)) {
     const staticDir = path.resolve(config.staticDir);
@@ -191,6 +195,10 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/team', teamRouter(deps));
   api.use('/devices', devicesRouter(deps));
   api.use('/sent-mail', sentMailRouter(deps));
+  api.use('/documents', documentsRouter(deps));
+  api.use('/calendar-feeds', calendarFeedsRouter(deps));
+  api.use('/inspector-links', inspectorLinksRouter(deps));
+  api.use('/inspector', inspectorRouter(deps));
   api.use('/holding-periods', holdingRouter(deps));
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));
@@ -204,4 +212,8 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
 }
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */
-function mountPublicRoutes(_app: express.Express, _deps: AppDeps) {}
+function mountPublicRoutes(app: express.Express, deps: AppDeps, sessionMiddleware: RequestHandler) {
+  app.get('/inspect/:token', allow('public'), sessionMiddleware, inspectorExchangeRoute(deps));
+  app.use('/inspector', noReferrer);
+  app.get('/calendar/:file', allow('public'), calendarFeedPublicRoute(deps));
+}

@@ -8,6 +8,7 @@ import { sweepPartialUploads } from './lib/storage';
 import { startMailCapture, type MailCapture } from './features/mail/mail-capture';
 import { createMailTransport, runMailOnce } from './features/mail/mail.service';
 import { startBackgroundJobs } from './features/mail/background-jobs';
+import { runReminderScan } from './features/documents/documents.service';
 
 const env = readEnv();
 const logger = createLogger(env.LOG_LEVEL);
@@ -57,7 +58,11 @@ const swept = await sweepPartialUploads(env.UPLOAD_DIR ?? `${env.DATA_DIR}/uploa
 if (swept) logger.info({ event: 'uploads_swept', count: swept }, 'removed partial uploads left by a crash');
 const now = () => new Date();
 const backgroundJobs = startBackgroundJobs(
-  [{ name: 'mail', run: () => runMailOnce({ db, now, transport: mailTransport, from: env.MAIL_FROM, logger }) }],
+  [
+    // Reminders first, so the ones queued this round go out in the same round.
+    { name: 'document-reminders', run: () => runReminderScan({ db, now, publicBaseUrl: env.PUBLIC_BASE_URL }) },
+    { name: 'mail', run: () => runMailOnce({ db, now, transport: mailTransport, from: env.MAIL_FROM, logger }) },
+  ],
   { intervalMs: 15_000, logger },
 );
 const server = app.listen(env.PORT, env.HOST, () => {
