@@ -30,6 +30,8 @@ import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 import { sentMailRouter } from './features/mail/mail.routes';
+import { labelsRouter } from './features/labels/labels.routes';
+import { lotPageRouter } from './features/labels/lot-page.routes';
 import { calendarFeedPublicRoute, calendarFeedsRouter, documentsRouter } from './features/documents/documents.routes';
 import { inspectorExchangeRoute, inspectorLinksRouter, inspectorRouter, noReferrer } from './features/inspector/inspector.routes';
 import { inspectorActorResolver } from './features/inspector/inspector-links.service';
@@ -57,6 +59,8 @@ export interface AppConfig {
   signInWindowMs: number;
   /** True when mail goes to the local SMTP stand-in (no SMTP_URL): the Sent mail page shows it. */
   mailCapturing?: boolean;
+  /** Public lot-page requests allowed per address per minute (default 300). */
+  lotPageLimitPerMinute?: number;
 }
 
 export interface AppDeps {
@@ -203,6 +207,7 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));
   api.use('/batches', batchesRouter(deps));
+  api.use('/labels', labelsRouter(deps));
   api.use('/recipes', recipesRouter(deps));
   api.use('/allergen-matrix', allergenMatrixRouter(deps));
   api.use('/rule-profiles', ruleProfilesRouter(deps));
@@ -213,6 +218,7 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */
 function mountPublicRoutes(app: express.Express, deps: AppDeps, sessionMiddleware: RequestHandler) {
+  app.use(lotPageRouter(deps));
   app.get('/inspect/:token', allow('public'), sessionMiddleware, inspectorExchangeRoute(deps));
   app.use('/inspector', noReferrer);
   app.get('/calendar/:file', allow('public'), calendarFeedPublicRoute(deps));

@@ -1,0 +1,48 @@
+import { Router } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import { eq } from 'drizzle-orm';
+import type { AppDeps } from '../../app';
+import { allow } from '../../middleware/access';
+import { batches } from '../../db/schema/batches';
+import { PUBLIC_CODE_PATTERN } from '../../../shared/domain/lot-page-url';
+import { LOT_PAGE_CSP, loadLotPage, renderLotNotFound, renderLotPage, renderLotTooMany } from './lot-page';
+
+/** Rendered pages are reused for this long unless the batch row changed (a recall changes it at once). */
+const CACHE_MS = 30_000;
+const CACHE_MAX = 2_000;
+
+/**
+ * GET /lot/:publicCode: the page a label's QR opens. No sign-in, no JavaScript, only public fields.
+ * A short public cache (60 s) so a recall shows quickly; noindex; generous per-address rate limit.
+ */
+export function lotPageRouter({ db, now, config }: AppDeps) {
+  const cache = new Map<string, { key: string; expires: number; status: number; html: string }>();
+  const limiter = rateLimit({
+    windowMs: 60_000, limit: config.lotPageLimitPerMinute ?? 300, standardHeaders: 'draft-8', legacyHeaders: false,
+    handler: (_req, res) => {
+      res.status(429).set({ 'Content-Security-Policy': LOT_PAGE_CSP, 'Retry-After': '60', 'Cache-Control': 'no-store' }).type('html').send(renderLotTooMany());
+    },
+  });
+  return Router().get('/lot/:publicCode', allow('public'), limiter, async (req, res) => {
+    res.set({
+      'Content-Security-Policy': LOT_PAGE_CSP,
+      'X-Robots-Tag': 'noindex, nofollow',
+      'Cache-Control': 'public, max-age=60',
+      'Referrer-Policy': 'no-referrer',
+    });
+    res.type('html');
+    const code = String(req.params.publicCode);
+    if (!PUBLIC_CODE_PATTERN.test(code)) return void res.status(404).send(renderLotNotFound());
+    const [head] = await db.select({ state: batches.state, version: batches.currentVersion, updatedAt: batches.updatedAt }).from(batches).where(eq(batches.publicCode, code));
+    if (!head) return void res.status(404).send(renderLotNotFound());
+    const key = `${head.state}|${head.version}|${head.updatedAt.getTime()}`;
+    const t = now().getTime();
+    const hit = cache.get(code);
+    if (hit && hit.key === key && hit.expires > t) return void res.status(hit.status).send(hit.html);
+    const view = await loadLotPage(db, code);
+    const entry = view ? { status: 200, html: renderLotPage(view) } : { status: 404, html: renderLotNotFound() };
+    if (cache.size >= CACHE_MAX) cache.clear();
+    cache.set(code, { key, expires: t + CACHE_MS, ...entry });
+    res.status(entry.status).send(entry.html);
+  });
+}
