@@ -30,6 +30,7 @@ import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 import { sentMailRouter } from './features/mail/mail.routes';
+import { customersRouter, salesRouter } from './features/sales/sales.routes';
 import { labelsRouter } from './features/labels/labels.routes';
 import { lotPageRouter } from './features/labels/lot-page.routes';
 import { calendarFeedPublicRoute, calendarFeedsRouter, documentsRouter } from './features/documents/documents.routes';
@@ -214,6 +215,8 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/business', businessRouter(deps));
   api.use('/ingredients', ingredientsRouter(deps));
   api.use('/supplier-lots', supplierLotsRouter(deps));
+  api.use('/sales', salesRouter(deps));
+  api.use('/customers', customersRouter(deps));
 }
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */
