@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
 import { batches, batchVersions } from '../../db/schema/batches';
 import { businesses } from '../../db/schema/business';
@@ -17,17 +17,6 @@ let recallNoticeProvider: RecallNoticeProvider | null = null;
 /** The recall feature registers where a batch's public recall notice comes from. */
 export function registerRecallNoticeProvider(provider: RecallNoticeProvider | null): void {
   recallNoticeProvider = provider;
-}
-
-/** Until the recall feature registers a provider: a `recalls` table with batch_id and public_notice, if it exists. */
-async function recallNoticeFromTable(db: DbOrTx, batchId: string): Promise<string | null> {
-  const cols = await db.execute<{ column_name: string }>(sql`
-    select column_name from information_schema.columns where table_schema = 'public' and table_name = 'recalls' and column_name in ('batch_id', 'public_notice', 'created_at')`);
-  const names = new Set(cols.rows.map((r) => r.column_name));
-  if (!names.has('batch_id') || !names.has('public_notice')) return null;
-  const order = names.has('created_at') ? sql`order by created_at desc` : sql``;
-  const rows = await db.execute<{ public_notice: string | null }>(sql`select public_notice from recalls where batch_id = ${batchId} ${order} limit 1`);
-  return rows.rows[0]?.public_notice?.trim() || null;
 }
 
 export interface LotPageView {
@@ -75,7 +64,7 @@ export async function loadLotPage(db: DbOrTx, publicCode: string): Promise<LotPa
     : [];
   let recall: LotPageView['recall'] = null;
   if (b.state === 'recalled') {
-    const notice = recallNoticeProvider ? await recallNoticeProvider(db, b.businessId, b.id) : await recallNoticeFromTable(db, b.id);
+    const notice = recallNoticeProvider ? await recallNoticeProvider(db, b.businessId, b.id) : null;
     recall = { notice };
   }
   return {
