@@ -30,6 +30,7 @@ import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 import { sentMailRouter } from './features/mail/mail.routes';
+import { cleaningRunsRouter, cleaningTemplatesRouter, equipmentRouter, sanitiserProductsRouter } from './features/cleaning/cleaning.routes';
 import { customersRouter, salesRouter } from './features/sales/sales.routes';
 import { labelsRouter } from './features/labels/labels.routes';
 import { lotPageRouter } from './features/labels/lot-page.routes';
@@ -207,6 +208,10 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/holding-periods', holdingRouter(deps));
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));
+  api.use('/equipment', equipmentRouter(deps));
+  api.use('/sanitiser-products', sanitiserProductsRouter(deps));
+  api.use('/cleaning-templates', cleaningTemplatesRouter(deps));
+  api.use('/cleaning-runs', cleaningRunsRouter(deps));
   api.use('/batches', batchesRouter(deps));
   api.use('/labels', labelsRouter(deps));
   api.use('/recipes', recipesRouter(deps));
