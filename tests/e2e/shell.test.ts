@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { AxeBuilder } from '@axe-core/playwright';
 import { AXE_TAGS, checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, VIEWPORTS, type E2eServer } from '../support/e2e';
-import { createTestBusiness, TEST_PASSWORD, type TestBusiness } from '../support/agents';
+import { createTestBusiness, signedInAgent, TEST_PASSWORD, type TestBusiness } from '../support/agents';
 
 let server: E2eServer;
 let browser: Browser;
@@ -26,7 +26,7 @@ afterAll(async () => {
 const NAV_BY_ROLE = {
   owner: ['Kitchen board', 'Batches', 'Recipes', 'Ingredients', 'Cleaning', 'Labels', 'Sales', 'Records', 'Trace & recall', 'Team', 'Settings', 'Sent mail', 'Account'],
   baker: ['Kitchen board', 'Batches', 'Recipes', 'Ingredients', 'Cleaning', 'Labels', 'Sales', 'Account'],
-  helper: ['Kitchen board', 'Batches', 'Recipes', 'Cleaning', 'Account'],
+  helper: ['Kitchen board', 'Batches', 'Recipes', 'Ingredients', 'Cleaning', 'Account'],
 } as const;
 
 async function expectNoViolations(page: Page) {
@@ -56,7 +56,7 @@ describe('sign-in', () => {
     withPage(VIEWPORTS.desktop, async (page) => {
       await page.goto(`${server.baseUrl}/sign-in`);
       await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-      await expect(page.getByLabel('E-mail').getAttribute('aria-invalid')).resolves.toBe('true');
+      await expect.poll(() => page.getByLabel('E-mail').getAttribute('aria-invalid')).toBe('true');
       await expectNoViolations(page);
       await page.getByLabel('E-mail').fill(business.members.owner.email);
       await page.getByLabel('Password', { exact: true }).fill('not the password');
@@ -175,7 +175,7 @@ describe('team and account pages', () => {
 
       await page.getByRole('button', { name: 'Create invite' }).click();
       const email = page.getByLabel('E-mail');
-      await expect(email.getAttribute('aria-invalid')).resolves.toBe('true');
+      await expect.poll(() => email.getAttribute('aria-invalid')).toBe('true');
       await expectNoViolations(page);
 
       // A server-side conflict lands on the field too.
@@ -212,13 +212,39 @@ describe('team and account pages', () => {
       await expect(page.getByLabel('Role', { exact: true }).inputValue()).resolves.toBe('baker');
     }));
 
+  test('when someone joins with an invite code, then they choose a password and land signed in with their role', async () => {
+    const owner = await signedInAgent(server.t, business, 'owner');
+    const email = `joiner-${Date.now()}@test.invalid`;
+    const created = await owner.post('/api/team/invites').send({ email, role: 'helper' });
+    expect(created.status).toBe(201);
+    await withPage(VIEWPORTS.phone, async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`);
+      await page.getByRole('link', { name: 'Use your invite code' }).click();
+      await page.getByLabel('Invite code').fill('not-a-real-code');
+      await page.getByRole('button', { name: 'Continue' }).click();
+      await expect.poll(() => page.getByLabel('Invite code').getAttribute('aria-invalid')).toBe('true');
+      await page.getByText('That invite code is not valid any more.').first().waitFor();
+      await expectNoViolations(page);
+      await page.getByLabel('Invite code').fill(created.body.code);
+      await page.getByRole('button', { name: 'Continue' }).click();
+      await page.getByText(`as ${email}`, { exact: false }).waitFor();
+      await page.getByLabel('Your name').fill('Juniper Joiner');
+      await page.getByLabel('Choose a password').fill('a long enough kitchen sentence');
+      await expectNoViolations(page);
+      await page.getByRole('button', { name: /^Join / }).click();
+      await page.getByRole('heading', { name: 'Kitchen board', level: 1 }).waitFor();
+      await expect(page.getByText('Juniper Joiner').first().isVisible()).resolves.toBe(true);
+      await expect(page.getByText('Helper', { exact: false }).first().isVisible()).resolves.toBe(true);
+    });
+  });
+
   test('when the account page opens, then its forms and session table pass axe', () =>
     withPage(VIEWPORTS.desktop, async (page) => {
       await signInInBrowser(page, server.baseUrl, business.members.helper.email, TEST_PASSWORD);
       await page.goto(`${server.baseUrl}/account`);
       await page.getByRole('table', { name: 'Where you are signed in' }).waitFor();
       await page.getByRole('button', { name: 'Change password' }).click();
-      await expect(page.getByLabel('Current password').getAttribute('aria-invalid')).resolves.toBe('true');
+      await expect.poll(() => page.getByLabel('Current password').getAttribute('aria-invalid')).toBe('true');
       await expectNoViolations(page);
     }));
 });
@@ -240,6 +266,8 @@ describe('layouts at phone, tablet and desktop widths', () => {
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Batches' }).click();
       await page.getByRole('heading', { name: 'Batches', level: 1 }).waitFor();
       expect(new URL(page.url()).pathname).toBe('/batches');
+      // Focus moves to the new screen's heading, so keyboard and screen-reader users start there.
+      await expect.poll(() => page.evaluate(() => document.activeElement?.tagName)).toBe('H1');
       // No sideways scrolling of the page itself (WCAG 1.4.10).
       expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
       await expectNoViolations(page);
