@@ -1,7 +1,17 @@
-import { ScreenBeingBuilt } from '../../screen-being-built';
+import { PageHeader } from '@/components/ui/page-header';
+import { InspectorLinksSection } from '@/features/records/components/inspector-links-section';
+import { DocumentsSection } from '@/features/records/components/documents-section';
+import { AuditPacketSection } from '@/features/records/components/audit-packet-section';
 
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
 
 export function Component() {
-  return <ScreenBeingBuilt title="Records" icon="records" description="The audit packet, links for an inspector, and your documents." />;
+  return (
+    <div className="space-y-6">
+      <PageHeader title="Records" description="Your permits and certificates, and what you share with inspectors." />
+      <DocumentsSection />
+      <InspectorLinksSection />
+      <AuditPacketSection />
+    </div>
+  );
 }
