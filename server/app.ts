@@ -30,6 +30,7 @@ import { businessRouter } from './features/business/business.routes';
 import { ingredientsRouter, supplierLotsRouter } from './features/ingredients/ingredients.routes';
 import { localDiskStorage, type FileStorage } from './lib/storage';
 import { sentMailRouter } from './features/mail/mail.routes';
+import { recallsRouter, traceRouter } from './features/trace/trace.routes';
 import { cleaningRunsRouter, cleaningTemplatesRouter, equipmentRouter, sanitiserProductsRouter } from './features/cleaning/cleaning.routes';
 import { customersRouter, salesRouter } from './features/sales/sales.routes';
 import { labelsRouter } from './features/labels/labels.routes';
@@ -222,6 +223,8 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/supplier-lots', supplierLotsRouter(deps));
   api.use('/sales', salesRouter(deps));
   api.use('/customers', customersRouter(deps));
+  api.use('/trace', traceRouter(deps));
+  api.use('/recalls', recallsRouter(deps));
 }
 
 /** Pages served outside /api: the public lot page, the inspector link exchange. */
