@@ -26,7 +26,7 @@ describe('recording a batch in the browser', () => {
     const crumb = await createIngredient(t, b, { labelName: `Cake crumb ${s}` });
     const sprinkles = await createIngredient(t, b, { labelName: `Sprinkles ${s}` });
     const butter = await createIngredient(t, b, { labelName: `Butter ${s}` });
-    const crumbLot = await createSupplierLot(t, b, { ingredientId: crumb.id, lotCode: 'MILL-4471', receivedOn: '2026-11-02' });
+    await createSupplierLot(t, b, { ingredientId: crumb.id, lotCode: 'MILL-4471', receivedOn: '2026-11-02' });
     await createSupplierLot(t, b, { ingredientId: sprinkles.id, lotCode: 'SPR-0912', receivedOn: '2026-11-03' });
     const butterLot = await createSupplierLot(t, b, { ingredientId: butter.id, lotCode: 'BTR-22', receivedOn: '2026-11-04' });
     const frosting = await createRecipeVersion(t, b, { name: `Binder frosting ${s}`, isSellable: false, components: [{ kind: 'ingredient', ingredientId: butter.id, grams: '200' }] });

@@ -4,6 +4,7 @@ import { businesses } from '../schema/business';
 import { supplierLots } from '../schema/ingredients';
 import { latestRecipeVersions } from '../../features/batches/batches.queries';
 import { changeBatchState, correctBatch, createBatch, getLotCandidates } from '../../features/batches/batches.service';
+import { createSupplierLot } from '../../features/ingredients/supplier-lots.service';
 import { addCalendarDays } from '../../../shared/domain/calendar-date';
 import { businessLocalDate, localDateTimeToInstants } from '../../../shared/domain/zoned-time';
 import type { BatchDetail } from '../../../shared/contracts/batches';
@@ -32,16 +33,29 @@ export const batchesSeedStep: SeedStep = {
     // The shared frosting/binder: the sub-recipe used by the most products.
     const subUse = new Map<string, number>();
     for (const p of products) for (const c of p.components) if (c.kind === 'recipe') subUse.set(c.recipeId, (subUse.get(c.recipeId) ?? 0) + 1);
-    const subId = [...subUse.entries()].sort((a, b) => b[1] - a[1])[0]?.[0];
+    const nameOf = (id: string) => recipes.find((r) => r.recipeId === id)?.name ?? '';
+    const isBinder = (id: string) => (/frosting|binder|buttercream/i.test(nameOf(id)) ? 1 : 0);
+    const subId = [...subUse.entries()].sort((a, b) => b[1] - a[1] || isBinder(b[0]) - isBinder(a[0]))[0]?.[0];
     const sub = recipes.find((r) => r.recipeId === subId);
     const withSub = products.filter((p) => subId && p.components.some((c) => c.kind === 'recipe' && c.recipeId === subId));
     const pA = withSub[0] ?? products[0]!;
     const pB = withSub[1] ?? products.find((p) => p !== pA) ?? pA;
     const plain = products.find((p) => !usesSub(p)) ?? pB;
 
-    const lots = await db.select().from(supplierLots).where(eq(supplierLots.businessId, businessId)).orderBy(desc(supplierLots.receivedOn));
     const tz = business!.timeZone;
     const today = businessLocalDate(ctx.now, tz);
+    // Every ingredient the batches use gets at least one received lot (the history starts ~6 weeks back).
+    const used = new Map<string, string>();
+    for (const r of [...products, ...(sub ? [sub] : [])]) for (const i of (await getLotCandidates(db, ctx.actors.owner, r.id)).ingredients) used.set(i.ingredientId, i.name);
+    const haveLots = new Set((await db.select({ id: supplierLots.ingredientId }).from(supplierLots).where(eq(supplierLots.businessId, businessId))).map((l) => l.id));
+    let n = 0;
+    for (const [ingredientId, name] of used) {
+      if (haveLots.has(ingredientId)) continue;
+      n += 1;
+      const initials = name.replace(/[^A-Za-z ]/g, '').split(' ').filter(Boolean).map((w) => w[0]!.toUpperCase()).join('').slice(0, 3) || 'LOT';
+      await createSupplierLot(db, ctx.actors.baker, ingredientId, { lotCode: `${initials}-${4100 + n * 37}`, receivedOn: addCalendarDays(today, -40), bestBy: null, quantity: '', notes: '' }, ctx.now);
+    }
+    const lots = await db.select().from(supplierLots).where(eq(supplierLots.businessId, businessId)).orderBy(desc(supplierLots.receivedOn));
     const at = (date: string, hh: number) => localDateTimeToInstants(`${date}T${String(hh).padStart(2, '0')}:00`, tz)[0] ?? ctx.now;
     const atHoursAfter = (date: string, hours: number) => new Date(Math.min(at(date, 9).getTime() + hours * 3_600_000, ctx.now.getTime()));
 
@@ -53,14 +67,15 @@ export const batchesSeedStep: SeedStep = {
 
     const made: Record<string, BatchDetail> = {};
     const make = async (key: string, recipe: (typeof recipes)[number], daysAgo: number, who: 'owner' | 'baker', opts: {
-      pieces?: number; packages?: number; notes?: string; steps?: Step[]; source?: BatchDetail; skipLots?: number;
+      pieces?: number; packages?: number; notes?: string; steps?: Step[]; source?: BatchDetail; skipLots?: boolean;
     }) => {
       const madeOn = addCalendarDays(today, -daysAgo);
       const sourceRecipeId = opts.source ? sub?.recipeId : undefined;
       const c = await getLotCandidates(db, ctx.actors.owner, recipe.id);
-      const coveredIds = sourceRecipeId ? c.subRecipes.find((s) => s.recipeId === sourceRecipeId)?.ingredientIds ?? [] : [];
-      const needed = c.ingredients.filter((i) => i.isDirect || !coveredIds.includes(i.ingredientId)).map((i) => i.ingredientId);
-      const skip = opts.skipLots ? needed.slice(-opts.skipLots) : [];
+      const fromFresh = new Set(c.subRecipes.filter((s) => s.recipeId !== sourceRecipeId).flatMap((s) => s.ingredientIds));
+      const needed = c.ingredients.filter((i) => i.isDirect || fromFresh.has(i.ingredientId)).map((i) => i.ingredientId);
+      // The "forgot to note the lot" story: sprinkles if the recipe has them, else its last ingredient.
+      const skip = opts.skipLots ? [needed.find((id) => /sprinkle/i.test(used.get(id) ?? '')) ?? needed.at(-1)!] : [];
       const chosen = needed.filter((id) => !skip.includes(id)).flatMap((id) => {
         const lot = lotFor(id, madeOn);
         return lot ? [{ ingredientId: id, supplierLotId: lot.id }] : [];
@@ -96,7 +111,7 @@ export const batchesSeedStep: SeedStep = {
       made.withFrostingA = await correctBatch(db, ctx.actors.owner, first.id, { quantityPieces: 38, quantityPackages: 9, reason: 'Recount after packing: two pops broke, so 38 pieces in 9 bags' }, atHoursAfter(addCalendarDays(today, -9), 8));
       if (withSub[1]) await make('withFrostingB', pB, 8, 'baker', { pieces: 24, packages: 6, source: frosting, steps: [release()] });
     }
-    await make('missingLot', pB, 3, 'baker', { pieces: 24, packages: 8, notes: 'Opened a new tub of sprinkles; lot number not written down.', skipLots: 1, steps: [release()] });
+    await make('missingLot', pB, 3, 'baker', { pieces: 24, packages: 8, notes: 'Opened a new tub of sprinkles; lot number not written down.', skipLots: true, steps: [release()] });
     await make('released', plain, 2, 'owner', { pieces: 30, packages: 10, steps: [release()] });
     await make('inProgress', pA, 0, 'baker', { pieces: 36, notes: 'Cake balls chilling; dipping this afternoon.' });
     ctx.shared.set(SEED_BATCHES_KEY, made);

@@ -332,6 +332,7 @@ export async function getBatchDetail(db: DbOrTx, actor: Pick<Actor, 'businessId'
   const ingredients = await currentIngredients(db, actor.businessId);
   const latest = await latestRecipeVersions(db, actor.businessId);
   const recipeNames = new Map(latest.map((r) => [r.recipeId, r.name]));
+  const sortKey = (r: BatchInputRow) => (r.kind === 'batch' ? `0${r.subRecipeName}` : `1${r.ingredientName}`);
   const inputsOf = (versionId: string): BatchInputRow[] =>
     inputRows
       .filter((r) => r.i.batchVersionId === versionId)
@@ -339,7 +340,8 @@ export async function getBatchDetail(db: DbOrTx, actor: Pick<Actor, 'businessId'
         r.i.sourceBatchId
           ? { kind: 'batch', subRecipeId: r.i.subRecipeId!, subRecipeName: recipeNames.get(r.i.subRecipeId!) ?? 'Recipe', sourceBatchId: r.i.sourceBatchId, sourceLotCode: r.sourceLotCode ?? '' }
           : { kind: 'ingredient', ingredientId: r.i.ingredientId!, ingredientName: ingredients.get(r.i.ingredientId!)?.labelName ?? 'Unnamed ingredient', supplierLotId: r.i.supplierLotId, supplierLotCode: r.lotCode, receivedOn: r.receivedOn },
-      );
+      )
+      .sort((a, b) => sortKey(a).localeCompare(sortKey(b)));
   const versions: BatchVersion[] = versionRows.map(({ v, madeByName, createdByName }) => ({
     version: v.version, madeByUserId: v.madeByUserId, madeByName, quantityPieces: v.quantityPieces, quantityPackages: v.quantityPackages,
     shelfLifeDays: v.shelfLifeDays, bestBy: v.bestBy, notes: v.notes, reason: v.reason, createdByName, createdAt: v.createdAt.toISOString(),

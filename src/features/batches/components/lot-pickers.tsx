@@ -11,8 +11,9 @@ const orNull = (v: string) => (v === '' ? null : v);
 
 /** The ingredient ids that need a supplier lot, given which sub-recipes come from another batch. */
 export function neededIngredientIds(c: LotCandidates, subs: SubRecipeBatchChoice[] = []): Set<string> {
-  const covered = new Set(c.subRecipes.filter((s, i) => subs[i]?.sourceBatchId).flatMap((s) => s.ingredientIds));
-  return new Set(c.ingredients.filter((i) => i.isDirect || !covered.has(i.ingredientId)).map((i) => i.ingredientId));
+  // An ingredient is still needed when used directly or by any sub-recipe made fresh.
+  const fromFresh = new Set(c.subRecipes.filter((_s, i) => !subs[i]?.sourceBatchId).flatMap((s) => s.ingredientIds));
+  return new Set(c.ingredients.filter((i) => i.isDirect || fromFresh.has(i.ingredientId)).map((i) => i.ingredientId));
 }
 
 /** Form values aligned with the candidates (one entry per ingredient and per sub-recipe), from saved choices. */
