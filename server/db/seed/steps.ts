@@ -3,7 +3,8 @@ import { ingredientsSeedStep } from './ingredients';
 import { recipesSeedStep } from './recipes';
 import { batchesSeedStep } from './batches';
 import { holdingSeedStep } from './holding';
+import { cleaningSeedStep } from './cleaning';
 
 // Feature seed steps in dependency order (ingredients before recipes before batches, ...).
 // Each feature adds one import and one entry here.
-export const DEMO_STEPS: SeedStep[] = [ingredientsSeedStep, recipesSeedStep, batchesSeedStep, holdingSeedStep];
+export const DEMO_STEPS: SeedStep[] = [ingredientsSeedStep, recipesSeedStep, batchesSeedStep, holdingSeedStep, cleaningSeedStep];
