@@ -131,7 +131,7 @@ export function AppLayout() {
           </div>
         </main>
       </div>
-      <IdleWarning idleExpiresAt={session.idleExpiresAt} />
+      <IdleWarning idleExpiresAt={session.idleExpiresAt} absoluteExpiresAt={session.absoluteExpiresAt} />
     </div>
   );
 }

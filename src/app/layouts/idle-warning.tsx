@@ -9,6 +9,7 @@ import { signInPath } from '../paths';
 
 // WCAG 2.2.1 Timing Adjustable: warn before the idle limit with at least 20 s to respond; we give 2 minutes.
 export const WARN_BEFORE_MS = 2 * 60 * 1000;
+const ABSOLUTE_NOTICE_MS = 10 * 60 * 1000;
 
 function formatLeft(ms: number): string {
   const s = Math.max(0, Math.ceil(ms / 1000));
@@ -21,7 +22,7 @@ function formatLeft(ms: number): string {
  * Counts down the server's rolling idle limit (every answered request restarts it) and asks
  * "Stay signed in?" two minutes before the end. One click extends the session; it works every time.
  */
-export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null }) {
+export function IdleWarning({ idleExpiresAt, absoluteExpiresAt }: { idleExpiresAt: string | null; absoluteExpiresAt: string | null }) {
   const qc = useQueryClient();
   const navigate = useNavigate();
   const location = useLocation();
@@ -35,9 +36,13 @@ export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null })
   // The idle window is measured once, from the session read at page load, on our own clock (so a
   // skewed device clock cancels out); every later answered request restarts it.
   const windowMs = useRef(0);
+  const skewMs = useRef(0);
   useEffect(() => {
     if (!idleExpiresAt) return setDeadline(null);
-    if (!windowMs.current) windowMs.current = Math.min(Math.max(Date.parse(idleExpiresAt) - Date.now(), 60_000), 12 * 60 * 60 * 1000);
+    if (!windowMs.current) {
+      windowMs.current = Math.min(Math.max(Date.parse(idleExpiresAt) - Date.now(), 60_000), 12 * 60 * 60 * 1000);
+      skewMs.current = Date.now() + windowMs.current - Date.parse(idleExpiresAt);
+    }
     setDeadline(Date.now() + windowMs.current);
   }, [idleExpiresAt]);
   useEffect(() => onServerContact(() => windowMs.current && setDeadline(Date.now() + windowMs.current)), []);
@@ -48,6 +53,9 @@ export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null })
   }, []);
 
   const left = deadline === null ? Number.POSITIVE_INFINITY : deadline - now;
+  // The absolute limit cannot be extended, so it gets an early, non-blocking notice instead.
+  const absoluteAt = absoluteExpiresAt ? Date.parse(absoluteExpiresAt) + skewMs.current : null;
+  const absoluteLeft = absoluteAt === null ? Number.POSITIVE_INFINITY : absoluteAt - now;
   const isWarning = left <= WARN_BEFORE_MS && left > 0;
 
   useEffect(() => {
@@ -74,6 +82,15 @@ export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null })
   };
 
   return (
+    <>
+      {absoluteLeft <= ABSOLUTE_NOTICE_MS && absoluteAt !== null ? (
+        <div role="status" className="fixed inset-x-0 top-16 z-20 mx-auto max-w-xl px-4" data-print="hide">
+          <p className="rounded-card border border-honey bg-honey-soft p-3 text-ink shadow">
+            <span className="font-bold">Signing out at {new Date(absoluteAt).toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' })}.</span> For safety a session has a fixed
+            maximum length. Save what you are doing, then sign in again to carry on.
+          </p>
+        </div>
+      ) : null}
     <Dialog
       isOpen={isWarning}
       onClose={() => void stay()}
@@ -97,5 +114,6 @@ export function IdleWarning({ idleExpiresAt }: { idleExpiresAt: string | null })
         </p>
       ) : null}
     </Dialog>
+    </>
   );
 }
