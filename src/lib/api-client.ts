@@ -115,6 +115,20 @@ async function send<S extends z.ZodType>(method: string, url: string, schema: S 
   return parsed.data;
 }
 
+/** POST JSON and answer the body as a Blob (PDF downloads), with the CSRF header and the same error answers. */
+async function postForBlob(url: string, body: unknown): Promise<{ blob: Blob; headers: Headers }> {
+  const headers = { Accept: 'application/pdf, application/json', 'Content-Type': 'application/json', 'X-CSRF-Token': await ensureCsrfToken() };
+  let res: Response;
+  try {
+    res = await fetch(url, { method: 'POST', headers, body: JSON.stringify(body), credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'network', 'Could not reach Crumbtrail. Check the connection and try again.');
+  }
+  contactListeners.forEach((l) => l());
+  if (!res.ok) throw await toApiError(res);
+  return { blob: await res.blob(), headers: res.headers };
+}
+
 /**
  * The only fetch in the client. Every response is validated with its zod schema; pass `null` as the
  * schema for 204 answers. Writes carry the session's X-CSRF-Token.
@@ -127,4 +141,6 @@ export const api = {
   delete: <S extends z.ZodType>(url: string, schema: S | null, body?: unknown, options?: RequestOptions) => send('DELETE', url, schema, body, options),
   /** multipart/form-data upload (POST), with the CSRF header like every write. */
   upload: <S extends z.ZodType>(url: string, schema: S | null, form: FormData, options?: RequestOptions) => send('POST', url, schema, form, options),
+  /** POST that answers a file (e.g. a label PDF) as a Blob. */
+  postForBlob,
 };
