@@ -125,6 +125,36 @@ describe('POST /api/batches: inputs', () => {
     const again = await baker.get(`/api/batches/${withBatch.body.id}/lot-candidates`);
     expect(again.body.subRecipes[0].batches.map((x: { id: string }) => x.id)).toEqual([frostingBatch.body.id]);
   });
+  test('when one sub-recipe comes from a batch, then an ingredient it shares with a fresh sub-recipe still needs its lot', async () => {
+    const { business, baker } = await setUp();
+    const b = business.businessId;
+    const butter = await createIngredient(t, b, { labelName: `Butter ${uniqueSuffix()}` });
+    const flour = await createIngredient(t, b, { labelName: `Flour ${uniqueSuffix()}` });
+    const sugar = await createIngredient(t, b, { labelName: `Icing sugar ${uniqueSuffix()}` });
+    const butterLot = await createSupplierLot(t, b, { ingredientId: butter.id });
+    const sugarLot = await createSupplierLot(t, b, { ingredientId: sugar.id });
+    const cakeBase = await createRecipeVersion(t, b, { isSellable: false, components: [{ kind: 'ingredient', ingredientId: flour.id, grams: '300' }, { kind: 'ingredient', ingredientId: butter.id, grams: '100' }] });
+    const binder = await createRecipeVersion(t, b, { isSellable: false, components: [{ kind: 'ingredient', ingredientId: butter.id, grams: '50' }, { kind: 'ingredient', ingredientId: sugar.id, grams: '100' }] });
+    const pops = await createRecipeVersion(t, b, { components: [{ kind: 'recipe', recipeId: cakeBase.recipeId, grams: '400' }, { kind: 'recipe', recipeId: binder.recipeId, grams: '150' }] });
+    const base = await createBatch(t, b, { recipeVersionId: cakeBase.id });
+    const withoutButter = await baker.post('/api/batches').send({ recipeVersionId: pops.id, lots: [{ ingredientId: sugar.id, supplierLotId: sugarLot.id }], subRecipeBatches: [{ recipeId: cakeBase.recipeId, sourceBatchId: base.id }] });
+    expect(withoutButter.body.warnings.map((w: { ingredientId: string }) => w.ingredientId)).toEqual([butter.id]);
+    const withButter = await baker.post('/api/batches').send({ recipeVersionId: pops.id, lots: [{ ingredientId: sugar.id, supplierLotId: sugarLot.id }, { ingredientId: butter.id, supplierLotId: butterLot.id }], subRecipeBatches: [{ recipeId: cakeBase.recipeId, sourceBatchId: base.id }] });
+    expect(withButter.body.warnings).toEqual([]);
+    // Flour comes only through the cake-base batch, so a lot for it is refused.
+    const flourLot = await createSupplierLot(t, b, { ingredientId: flour.id });
+    const extra = await baker.post('/api/batches').send({ recipeVersionId: pops.id, lots: [{ ingredientId: flour.id, supplierLotId: flourLot.id }], subRecipeBatches: [{ recipeId: cakeBase.recipeId, sourceBatchId: base.id }] });
+    expect(extra).toMatchObject({ status: 400, body: { error: { fieldErrors: { 'lots.0.ingredientId': expect.any(Array) } } } });
+  });
+
+  test('recipe options list each recipe with its versions, newest first', async () => {
+    const { business, helper, recipe } = await setUp();
+    await createRecipeVersion(t, business.businessId, { recipeId: recipe.recipeVersion.recipeId, version: 2, name: recipe.recipeVersion.name, components: recipe.recipeVersion.components });
+    const res = await helper.get('/api/batches/recipe-options');
+    expect(res.status).toBe(200);
+    const mine = res.body.recipes.find((r: { recipeId: string }) => r.recipeId === recipe.recipeVersion.recipeId);
+    expect(mine.versions.map((v: { version: number }) => v.version)).toEqual([2, 1]);
+  });
 });
 
 describe('POST /api/batches/:id/state', () => {
@@ -250,6 +280,15 @@ describe('Idempotency-Key', () => {
     expect(res.body.error.message).toMatch(/already used for a different request/);
     const rows = await t.db.select().from(batches).where(and(eq(batches.businessId, business.businessId), eq(batches.madeOn, '2025-08-04')));
     expect(rows).toHaveLength(0);
+  });
+
+  test('when a key used for a create is sent with a state change, then it answers 422', async () => {
+    const { owner, recipe, lots } = await setUp();
+    const key = `cross-${uniqueSuffix()}`;
+    const { body: batch } = await owner.post('/api/batches').set('Idempotency-Key', key).send({ recipeVersionId: recipe.recipeVersion.id, lots });
+    const res = await owner.post(`/api/batches/${batch.id}/state`).set('Idempotency-Key', key).send({ toState: 'released', reason: 'Packed' });
+    expect(res.status).toBe(422);
+    expect((await owner.get(`/api/batches/${batch.id}`)).body.state).toBe('in_progress');
   });
 
   test('when a state change is retried with its key, then only one change is recorded', async () => {

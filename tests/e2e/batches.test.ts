@@ -39,6 +39,8 @@ describe('recording a batch in the browser', () => {
     try {
       await signInInBrowser(page, server.baseUrl, business.members.baker.email, TEST_PASSWORD);
       await page.goto(`${server.baseUrl}/batches`);
+      await page.getByRole('heading', { level: 1, name: 'Batches' }).waitFor();
+      expect(describeViolations(await checkA11y(page))).toEqual([]);
       await page.getByRole('link', { name: 'Record a batch' }).first().click();
       await page.getByRole('heading', { level: 1, name: 'Record a batch' }).waitFor();
       await page.getByLabel('Recipe', { exact: true }).selectOption({ label: `Confetti cake pops ${s}` });
@@ -61,7 +63,9 @@ describe('recording a batch in the browser', () => {
       await page.getByRole('button', { name: 'Change state' }).click();
       await page.getByLabel('New state').selectOption('held');
       await page.getByLabel('Reason').fill('Checking the sprinkles lot with the supplier');
+      expect(describeViolations(await checkA11y(page))).toEqual([]);
       await page.getByRole('button', { name: 'Review change' }).click();
+      await page.getByRole('alertdialog').getByText('Mark batch').waitFor();
       await page.getByRole('button', { name: 'Yes, mark as held' }).click();
       await page.getByRole('region', { name: 'State history' }).getByText('Checking the sprinkles lot with the supplier').waitFor();
       await expect(page.getByText('State:').textContent()).resolves.toContain('Held');
