@@ -60,7 +60,16 @@ export type InspectorSession = z.infer<typeof InspectorSessionSchema>;
 /** GET /api/inspector/records (inspector): the records of the link's range, no customer data. */
 export const InspectorRecordsSchema = z.object({
   batches: z.array(z.object({ id: z.string(), lotCode: z.string(), productName: z.string(), madeOn: z.string(), state: z.string() })),
-  holdingPeriods: z.array(z.object({ id: z.string(), lotCode: z.string(), kind: z.string(), policy: z.string(), startedAt: z.string(), startedByName: z.string(), limitMinutes: z.number().nullable() })),
+  holdingPeriods: z.array(z.object({
+    id: z.string(), lotCode: z.string(), kind: z.string(), policy: z.string(), startedAt: z.string(), startedByName: z.string(), limitMinutes: z.number().nullable(),
+    stoppedAt: z.string().nullable(),
+    actions: z.array(z.object({ action: z.string(), reason: z.string(), recordedAt: z.string(), recordedByName: z.string() })),
+  })),
+  /** Cleaning runs of the range with the signature of their current version (printed name, meaning, time, validity). */
+  cleaningRuns: z.array(z.object({
+    id: z.string(), templateName: z.string(), runDate: z.string(), batchLotCode: z.string().nullable(), status: z.string(),
+    signature: z.object({ printedName: z.string(), meaning: z.string(), signedAtLocal: z.string(), validityText: z.string() }).nullable(),
+  })),
   documents: z.array(z.object({ documentId: z.string(), versionId: z.string(), kind: z.string(), title: z.string(), issuedOn: z.string(), expiresOn: z.string().nullable() })),
   recordEvents: z.array(z.object({ seq: z.number(), occurredAt: z.string(), entityType: z.string(), action: z.string(), actorName: z.string() })),
 });

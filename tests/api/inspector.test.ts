@@ -92,7 +92,7 @@ describe('inspector links', () => {
     const { inspector } = await openLink(created.url);
     const records = await inspector.get('/api/inspector/records');
     expect(records.status).toBe(200);
-    expect(Object.keys(records.body).sort()).toEqual(['batches', 'documents', 'holdingPeriods', 'recordEvents']);
+    expect(Object.keys(records.body).sort()).toEqual(['batches', 'cleaningRuns', 'documents', 'holdingPeriods', 'recordEvents']);
     const text = JSON.stringify(records.body);
     for (const word of ['customer', 'phone', '@', 'sale']) expect(text.toLowerCase()).not.toContain(word);
     expect(text).not.toContain(business.members.owner.email);

@@ -4,7 +4,7 @@ import type { Db, DbOrTx } from '../../db/client';
 import { businesses } from '../../db/schema/business';
 import { batches } from '../../db/schema/batches';
 import { recipeVersions } from '../../db/schema/recipes';
-import { holdingPeriods } from '../../db/schema/holding';
+import { holdingActions, holdingPeriods, holdingStops } from '../../db/schema/holding';
 import { recordEvents } from '../../db/schema/record-events';
 import { inspectorLinks, inspectorViews, type InspectorLinkRow } from '../../db/schema/inspector';
 import type { Actor } from '../../lib/actor';
@@ -14,6 +14,7 @@ import type { ActorResolver } from '../../middleware/actor';
 import { appendRecordEvent } from '../records/record-events.service';
 import { queueMail } from '../mail/mail.service';
 import { listDocuments } from '../documents/documents.service';
+import { listCleaningRunsForRange } from '../cleaning/cleaning.service';
 import {
   CreateInspectorLinkInputSchema,
   type CreateInspectorLinkInput,
@@ -157,13 +158,14 @@ export async function inspectorRecords(db: Db, actor: Actor, linkId: string, now
   const [b] = await db.select({ timeZone: businesses.timeZone }).from(businesses).where(eq(businesses.id, actor.businessId));
   const tz = b!.timeZone;
   const localDay = (col: typeof holdingPeriods.startedAt | typeof recordEvents.occurredAt) => sql`(${col} at time zone ${tz})::date`;
-  const [batchRows, holdingRows, eventRows, docs] = await Promise.all([
+  const [batchRows, holdingRows, eventRows, docs, runs] = await Promise.all([
     db.select({ id: batches.id, lotCode: batches.lotCode, productName: recipeVersions.name, madeOn: batches.madeOn, state: batches.state })
       .from(batches).innerJoin(recipeVersions, eq(recipeVersions.id, batches.recipeVersionId))
       .where(and(eq(batches.businessId, actor.businessId), gte(batches.madeOn, link.rangeFrom), lte(batches.madeOn, link.rangeTo)))
       .orderBy(asc(batches.madeOn), asc(batches.lotCode)),
-    db.select({ id: holdingPeriods.id, lotCode: batches.lotCode, kind: holdingPeriods.kind, policy: holdingPeriods.policy, startedAt: holdingPeriods.startedAt, startedByName: holdingPeriods.startedByName, limitMinutes: holdingPeriods.limitMinutes })
+    db.select({ id: holdingPeriods.id, lotCode: batches.lotCode, kind: holdingPeriods.kind, policy: holdingPeriods.policy, startedAt: holdingPeriods.startedAt, startedByName: holdingPeriods.startedByName, limitMinutes: holdingPeriods.limitMinutes, stoppedAt: holdingStops.stoppedAt })
       .from(holdingPeriods).innerJoin(batches, eq(batches.id, holdingPeriods.batchId))
+      .leftJoin(holdingStops, eq(holdingStops.periodId, holdingPeriods.id))
       .where(and(eq(holdingPeriods.businessId, actor.businessId), sql`${localDay(holdingPeriods.startedAt)} between ${link.rangeFrom}::date and ${link.rangeTo}::date`))
       .orderBy(asc(holdingPeriods.startedAt)),
     db.select({ seq: recordEvents.seq, occurredAt: recordEvents.occurredAt, entityType: recordEvents.entityType, action: recordEvents.action, actorName: recordEvents.actorName })
@@ -172,10 +174,24 @@ export async function inspectorRecords(db: Db, actor: Actor, linkId: string, now
       .orderBy(asc(recordEvents.seq))
       .limit(2000),
     listDocuments(db, actor, now),
+    listCleaningRunsForRange(db, actor.businessId, { from: link.rangeFrom, to: link.rangeTo }),
   ]);
+  const actionRows = holdingRows.length
+    ? await db.select().from(holdingActions).where(and(eq(holdingActions.businessId, actor.businessId), inArray(holdingActions.periodId, holdingRows.map((h) => h.id)))).orderBy(asc(holdingActions.recordedAt))
+    : [];
   return {
     batches: batchRows,
-    holdingPeriods: holdingRows.map((h) => ({ ...h, startedAt: h.startedAt.toISOString() })),
+    holdingPeriods: holdingRows.map((h) => ({
+      ...h, startedAt: h.startedAt.toISOString(), stoppedAt: h.stoppedAt?.toISOString() ?? null,
+      actions: actionRows.filter((a) => a.periodId === h.id).map((a) => ({ action: a.action, reason: a.reason, recordedAt: a.recordedAt.toISOString(), recordedByName: a.recordedByName })),
+    })),
+    cleaningRuns: runs.map((r) => {
+      const sig = r.versions[0]?.signature ?? null;
+      return {
+        id: r.id, templateName: r.templateName, runDate: r.runDate, batchLotCode: r.batchLotCode, status: r.status,
+        signature: sig ? { printedName: sig.printedName, meaning: sig.meaning, signedAtLocal: sig.signedAtLocal, validityText: sig.validityText } : null,
+      };
+    }),
     documents: docs.documents.map((d) => ({ documentId: d.id, versionId: d.current.id, kind: d.kind, title: d.current.title, issuedOn: d.current.issuedOn, expiresOn: d.current.expiresOn })),
     recordEvents: eventRows.map((e) => ({ ...e, occurredAt: e.occurredAt.toISOString() })),
   };
