@@ -6,6 +6,7 @@ import { uniqueSuffix } from '../support/db';
 import { createBatch, createIngredient, createRecipeVersion, createSimpleRecipe, createSupplierLot } from '../support/factories';
 import { batches, batchVersions } from '../../server/db/schema/batches';
 import { recordEvents } from '../../server/db/schema/record-events';
+import { businesses } from '../../server/db/schema/business';
 import { registerReleaseCheck, unregisterReleaseCheck, type ReleaseCheck } from '../../server/features/batches/release-checks';
 import { verifyBusinessChain } from '../../server/features/records/record-events.service';
 
@@ -40,6 +41,16 @@ describe('POST /api/batches: lot codes', () => {
     }
     // 2025-03-01 is ordinal day 060 in a common year (ISO 8601 ordinal date).
     expect(codes).toEqual(['CT-25060-01', 'CT-25060-02', 'CT-25060-03', 'CT-25061-01']);
+  });
+
+  test('when the business uses its own scheme and prefix, then codes follow it', async () => {
+    const { business, baker, recipe, lots } = await setUp();
+    await t.db.update(businesses).set({ lotCodeScheme: '{PREFIX}{YYYY}{MM}{DD}-{SEQ}', lotCodePrefix: 'JL' }).where(eq(businesses.id, business.businessId));
+    const res = await baker.post('/api/batches').send({ recipeVersionId: recipe.recipeVersion.id, madeOn: '2025-03-01', lots });
+    expect(res.body.lotCode).toBe('JL20250301-01');
+    await t.db.update(businesses).set({ lotCodeScheme: '{PREFIX}-{SEQ}' }).where(eq(businesses.id, business.businessId));
+    const bad = await baker.post('/api/batches').send({ recipeVersionId: recipe.recipeVersion.id, madeOn: '2025-03-01', lots });
+    expect(bad).toMatchObject({ status: 400, body: { error: { code: 'validation_failed', message: expect.stringMatching(/lot-code scheme/) } } });
   });
 
   test('when batches are made concurrently on one day, then each gets its own sequence number', async () => {
