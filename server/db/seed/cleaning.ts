@@ -1,5 +1,5 @@
 import { and, asc, eq, lt } from 'drizzle-orm';
-import type { SeedContext, SeedStep } from './demo';
+import type { SeedStep } from './demo';
 import type { Actor } from '../../lib/actor';
 import { batches } from '../schema/batches';
 import { businesses } from '../schema/business';

@@ -8,6 +8,8 @@ import { BatchStateBadge, BATCH_STATE_LABELS } from '@/features/batches/componen
 import { BatchSections } from '@/features/batches/components/batch-sections';
 // Fills the batch page's holding section.
 import '@/features/holding/components/batch-holding-section';
+// Fills the batch page's cleanings section.
+import '@/features/cleaning/components/batch-cleaning-section';
 import { StateChangeDialog } from '@/features/batches/components/state-change-dialog';
 import { CorrectionForm } from '@/features/batches/components/batch-form';
 import { useSession } from '@/features/auth/api';
