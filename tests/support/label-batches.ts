@@ -70,12 +70,13 @@ export async function pdfText(bytes: Uint8Array): Promise<string[]> {
   return pages;
 }
 
-/** Renders page `page` of a PDF to PNG at `dpi` with poppler's pdftoppm; answers the PNG path. */
-export async function renderPdfPage(bytes: Uint8Array, page = 1, dpi = 300): Promise<string> {
+/** Renders page `page` of a PDF to PNG at `dpi` with poppler's pdftoppm (optionally a crop, in inches); answers the PNG path. */
+export async function renderPdfPage(bytes: Uint8Array, page = 1, dpi = 300, crop?: { x: number; y: number; w: number; h: number }): Promise<string> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'crumbtrail-pdf-'));
   const file = path.join(dir, 'in.pdf');
   fs.writeFileSync(file, bytes);
-  await run('pdftoppm', ['-r', String(dpi), '-png', '-f', String(page), '-l', String(page), '-singlefile', file, path.join(dir, 'page')]);
+  const area = crop ? ['-x', crop.x, '-y', crop.y, '-W', crop.w, '-H', crop.h].map((v) => (typeof v === 'number' ? String(Math.round(v * dpi)) : v)) : [];
+  await run('pdftoppm', ['-r', String(dpi), '-png', '-f', String(page), '-l', String(page), ...area, '-singlefile', file, path.join(dir, 'page')]);
   return path.join(dir, 'page.png');
 }
 

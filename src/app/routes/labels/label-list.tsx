@@ -16,7 +16,6 @@ import { Select } from '@/components/ui/select';
 import { Field, FormError } from '@/components/ui/field';
 import { Checkbox } from '@/components/ui/checkbox';
 import { Button } from '@/components/ui/button';
-import { EmptyState } from '@/components/ui/empty-state';
 import { DataTable, type ColumnDef } from '@/components/ui/data-table';
 import { LoadingBlock } from '@/components/ui/spinner';
 import { StatusBadge } from '@/components/ui/status-badge';
@@ -24,7 +23,8 @@ import { StatusBadge } from '@/components/ui/status-badge';
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
 
 export const loader = (qc: QueryClient) => async () => {
-  await Promise.all([qc.ensureQueryData(batchQueries.list({ state: 'released' })), qc.ensureQueryData(labelQueries.printRuns())]);
+  // Print history is for owners and bakers only, so it loads with the screen rather than here.
+  await qc.ensureQueryData(batchQueries.list({ state: 'released' }));
   return null;
 };
 
@@ -93,7 +93,7 @@ export function Component() {
   const [search] = useSearchParams();
   const canPrint = user?.role === 'owner' || user?.role === 'baker';
   const batches = useQuery(batchQueries.list({ state: 'released' }));
-  const history = useQuery(labelQueries.printRuns());
+  const history = useQuery({ ...labelQueries.printRuns(), enabled: canPrint });
   const preview = usePreviewLabels();
   const printer = usePrintLabels();
   const [previewUrl, setPreviewUrl] = useState<string | null>(null);
@@ -111,17 +111,8 @@ export function Component() {
   const template = getLabelTemplate(v.templateId ?? '');
   const parsedSheet = PrintLabelsInputSchema.shape.sheet.safeParse(v.sheet);
   const layout = template && parsedSheet.success ? sheetLayout(template, parsedSheet.data) : null;
-  const check = useQuery({ ...labelQueries.check(v.batchId ?? '', v.templateId ?? '', Boolean(v.confirmNeedsReview)), enabled: Boolean(v.batchId) });
+  const check = useQuery({ ...labelQueries.check(v.batchId ?? '', v.templateId ?? '', Boolean(v.confirmNeedsReview)), enabled: canPrint && Boolean(v.batchId) });
   const errors = form.formState.errors;
-
-  if (!canPrint) {
-    return (
-      <>
-        <PageHeader title="Labels" />
-        <EmptyState title="Only owners and bakers print labels">Ask an owner or a baker to print labels for a batch.</EmptyState>
-      </>
-    );
-  }
 
   const fail = (err: unknown) => {
     const message = applyServerErrors(err, form.setError, ['batchId', 'templateId', 'count', 'sheet']);
