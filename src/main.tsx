@@ -16,8 +16,10 @@ import { ToastProvider } from './components/ui/toast';
 // Forms keep their input as drafts in this tab (src/lib/form-drafts.ts), so nothing typed is lost.
 const queryClient = createQueryClient({
   onUnauthenticated: () => {
-    forgetSession(queryClient);
     const { pathname, search } = window.location;
+    // The inspector screen shows its own "link ended" page instead of sign-in.
+    if (pathname === '/inspector') return;
+    forgetSession(queryClient);
     if (pathname === '/sign-in') return;
     void router.navigate(signInPath(pathname + search, 'expired'), { replace: true });
   },

@@ -14,6 +14,7 @@ export const paths = {
   settings: '/settings',
   sentMail: '/sent-mail',
   account: '/account',
+  inspector: '/inspector',
   signIn: '/sign-in',
   signUp: '/sign-up',
   join: '/join',

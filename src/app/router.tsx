@@ -76,6 +76,8 @@ export function createAppRouter(qc: QueryClient) {
             { path: 'account', ...page(qc, () => import('./routes/account/account-page')) },
           ],
         },
+        // The inspector's read-only screen: outside the member layout (no member navigation or sign-in).
+        { path: 'inspector', ...page(qc, () => import('./routes/inspector/inspector-view')) },
         { path: '*', ...page(qc, () => import('./routes/errors/not-found')) },
       ],
     },
