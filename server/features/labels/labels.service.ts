@@ -56,7 +56,12 @@ async function prepare(db: DbOrTx, actor: Actor, input: { batchId: string; templ
   const profile = await businessRuleProfile(db, actor.businessId);
   const labelText = await computeLabelText(db, actor.businessId, row.b.recipeVersionId, profile);
   const violation = await hasUnresolvedHoldingViolation(db, actor.businessId, row.b.id, ctx.now);
-  const lotUrl = lotPageUrl(ctx.publicBaseUrl, row.b.publicCode);
+  let lotUrl = '';
+  try {
+    lotUrl = lotPageUrl(ctx.publicBaseUrl, row.b.publicCode);
+  } catch {
+    // Checked below as a problem: a QR must never point at a plain-http address off this computer.
+  }
   const batch = { id: row.b.id, lotCode: row.b.lotCode, madeOn: row.b.madeOn, bestBy: row.v.bestBy, state: row.b.state as BatchState, productName: row.productName };
   const check = checkLabel({
     productName: row.productName,
@@ -66,11 +71,15 @@ async function prepare(db: DbOrTx, actor: Actor, input: { batchId: string; templ
     batch: { ...batch, hasUnresolvedHoldingViolation: violation },
     business,
     template,
-    qrModules: qrMatrix(lotUrl).size,
+    qrModules: qrMatrix(lotUrl || `https://${'x'.repeat(ctx.publicBaseUrl.length)}/lot/${row.b.publicCode}`).size,
     measure: latoMeasure(),
     confirmNeedsReview: input.confirmNeedsReview,
     actorRole: actor.role,
   });
+  if (!lotUrl) {
+    check.problems.push({ code: 'public_address_not_https', message: 'The app\u2019s public address (PUBLIC_BASE_URL) must use https:// so the QR code is safe to open. Ask whoever runs Crumbtrail to set it.' });
+    check.ok = false;
+  }
   return { batch, template, lotUrl, caution: profile.caution, check };
 }
 
