@@ -38,6 +38,7 @@ import { lotPageRouter } from './features/labels/lot-page.routes';
 import { calendarFeedPublicRoute, calendarFeedsRouter, documentsRouter } from './features/documents/documents.routes';
 import { inspectorExchangeRoute, inspectorLinksRouter, inspectorRouter, noReferrer } from './features/inspector/inspector.routes';
 import { inspectorActorResolver } from './features/inspector/inspector-links.service';
+import { auditPacketsRouter } from './features/records/audit-packet.routes';
 import { allow } from './middleware/access';
 
 export interface AppConfig {
@@ -206,6 +207,7 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/calendar-feeds', calendarFeedsRouter(deps));
   api.use('/inspector-links', inspectorLinksRouter(deps));
   api.use('/inspector', inspectorRouter(deps));
+  api.use('/audit-packets', auditPacketsRouter(deps));
   api.use('/holding-periods', holdingRouter(deps));
   api.use('/written-procedures', writtenProceduresRouter(deps));
   api.use('/kitchen-board', kitchenBoardRouter(deps));

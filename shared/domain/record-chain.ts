@@ -52,17 +52,42 @@ export type ChainVerdict =
   | { ok: true; count: number; headHash: string; headSeq: number }
   | { ok: false; count: number; firstBadSeq: number; problem: 'hash_mismatch' | 'broken_link' | 'gap_in_sequence'; headHash: string };
 
-/** Walks one business's entries in seq order and names the first entry that does not verify. */
-export function verifyChain(entries: ReadonlyArray<ChainEntry & { hash: string }>): ChainVerdict {
+/** Checks entries one at a time in seq order, so a long chain can be verified page by page. */
+export interface ChainVerifier {
+  /** Feeds the next entry; returns false once the chain is broken (later entries are ignored). */
+  push(entry: ChainEntry & { hash: string }): boolean;
+  result(): ChainVerdict;
+}
+
+/** A verifier that names the first entry that does not verify; `verifyChain` is the one-shot form. */
+export function createChainVerifier(): ChainVerifier {
   let prev = GENESIS_HASH;
   let expectedSeq = 1;
-  for (const e of entries) {
-    if (e.seq !== expectedSeq) return { ok: false, count: entries.length, firstBadSeq: expectedSeq, problem: 'gap_in_sequence', headHash: prev };
-    if (e.prevHash !== prev) return { ok: false, count: entries.length, firstBadSeq: e.seq, problem: 'broken_link', headHash: prev };
-    const { hash, ...rest } = e;
-    if (hashEntry(rest) !== hash) return { ok: false, count: entries.length, firstBadSeq: e.seq, problem: 'hash_mismatch', headHash: prev };
-    prev = hash;
-    expectedSeq += 1;
-  }
-  return { ok: true, count: entries.length, headHash: prev, headSeq: expectedSeq - 1 };
+  let count = 0;
+  let broken: { firstBadSeq: number; problem: 'hash_mismatch' | 'broken_link' | 'gap_in_sequence'; headHash: string } | null = null;
+  return {
+    push(e) {
+      count += 1;
+      if (broken) return false;
+      const { hash, ...rest } = e;
+      if (e.seq !== expectedSeq) broken = { firstBadSeq: expectedSeq, problem: 'gap_in_sequence', headHash: prev };
+      else if (e.prevHash !== prev) broken = { firstBadSeq: e.seq, problem: 'broken_link', headHash: prev };
+      else if (hashEntry(rest) !== hash) broken = { firstBadSeq: e.seq, problem: 'hash_mismatch', headHash: prev };
+      if (broken) return false;
+      prev = hash;
+      expectedSeq += 1;
+      return true;
+    },
+    result() {
+      return broken ? { ok: false, count, ...broken } : { ok: true, count, headHash: prev, headSeq: expectedSeq - 1 };
+    },
+  };
+}
+
+/** Walks one business's entries in seq order and names the first entry that does not verify. */
+export function verifyChain(entries: ReadonlyArray<ChainEntry & { hash: string }>): ChainVerdict {
+  const verifier = createChainVerifier();
+  for (const e of entries) if (!verifier.push(e)) break;
+  const verdict = verifier.result();
+  return { ...verdict, count: entries.length };
 }

@@ -1,7 +1,7 @@
-import { desc, eq, sql, asc } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, sql } from 'drizzle-orm';
 import { recordEvents, type RecordEventRow } from '../../db/schema/record-events';
 import type { Db, DbOrTx } from '../../db/client';
-import { GENESIS_HASH, hashEntry, verifyChain, type ChainEntry, type ChainVerdict } from '../../../shared/domain/record-chain';
+import { GENESIS_HASH, createChainVerifier, hashEntry, type ChainEntry, type ChainVerdict } from '../../../shared/domain/record-chain';
 import type { Actor } from '../../lib/actor';
 
 export interface NewRecordEvent {
@@ -76,10 +76,17 @@ export function toChainEntry(r: RecordEventRow): ChainEntry & { hash: string } {
   };
 }
 
-/** Reads the whole chain of one business and verifies it. */
-export async function verifyBusinessChain(db: Db, businessId: string): Promise<ChainVerdict> {
-  const rows = await db.select().from(recordEvents).where(eq(recordEvents.businessId, businessId)).orderBy(asc(recordEvents.seq));
-  return verifyChain(rows.map(toChainEntry));
+const VERIFY_PAGE = 2000;
+
+/** Verifies one business's whole chain, reading it in pages of seq so memory stays flat. */
+export async function verifyBusinessChain(db: DbOrTx, businessId: string): Promise<ChainVerdict> {
+  const verifier = createChainVerifier();
+  for (let after = -1; ; ) {
+    const rows = await db.select().from(recordEvents).where(and(eq(recordEvents.businessId, businessId), gt(recordEvents.seq, after))).orderBy(asc(recordEvents.seq)).limit(VERIFY_PAGE);
+    for (const r of rows) verifier.push(toChainEntry(r));
+    if (rows.length < VERIFY_PAGE) return verifier.result();
+    after = rows[rows.length - 1]!.seq;
+  }
 }
 
 /** An earlier event with this idempotency key, if the same request already ran. */
