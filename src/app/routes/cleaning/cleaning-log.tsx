@@ -7,7 +7,7 @@ import { PageHeader } from '@/components/ui/page-header';
 import { Select } from '@/components/ui/select';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { LoadingBlock } from '@/components/ui/spinner';
-import { FormError } from '@/components/ui/field';
+import { Field, FormError } from '@/components/ui/field';
 import { useSession } from '@/features/auth/api';
 import { cleaningQueries, useStartCleaningRun } from '@/features/cleaning/api';
 import { RunCard } from '@/features/cleaning/components/run-card';
@@ -50,7 +50,9 @@ export function Component() {
   const isDevice = session.kind === 'device';
   const role = session.user?.role;
   const canEdit = role === 'owner' || role === 'baker';
-  const runs = useQuery(cleaningQueries.runs());
+  const [date, setDate] = useState<string>();
+  const runs = useQuery(cleaningQueries.runs(date));
+  const isToday = !date || date === runs.data?.today;
   const due = useQuery(cleaningQueries.due());
   return (
     <div className="space-y-8">
@@ -65,7 +67,7 @@ export function Component() {
               {due.data.equipment.map((e) => (
                 <li key={e.equipmentId} className="flex flex-wrap items-center gap-2 rounded-card border border-hairline bg-surface p-3">
                   {DUE_BADGE[e.status]} <span className="font-bold">{e.name}</span>
-                  {e.nextDueAtLocal ? <span className="tabular text-sm text-muted">next by {e.nextDueAtLocal}</span> : null}
+                  {e.nextDueAtLocal ? <span className="tabular text-sm text-muted">{e.status === 'overdue' ? 'due since' : 'next by'} {e.nextDueAtLocal}</span> : null}
                 </li>
               ))}
             </ul>
@@ -73,10 +75,13 @@ export function Component() {
         ) : <LoadingBlock />}
       </section>
       <section aria-labelledby="today-heading" className="space-y-4">
-        <h2 id="today-heading" className="text-xl font-bold">Today{runs.data ? ` (${runs.data.today})` : ''}</h2>
-        <StartRun />
+        <div className="flex flex-wrap items-end justify-between gap-3">
+          <h2 id="today-heading" className="text-xl font-bold">{isToday ? 'Today' : 'Cleaning on'}{runs.data ? ` (${date ?? runs.data.today})` : ''}</h2>
+          <Field label="Show another day" type="date" value={date ?? runs.data?.today ?? ''} max={runs.data?.today} onChange={(e) => setDate(e.target.value || undefined)} data-print="hide" />
+        </div>
+        {isToday ? <StartRun /> : null}
         {runs.isError ? <p role="alert">{runs.error.message}</p> : null}
-        {runs.data && runs.data.runs.length === 0 ? <EmptyState title="No cleaning recorded today">Start a checklist above when you clean.</EmptyState> : null}
+        {runs.data && runs.data.runs.length === 0 ? <EmptyState title={isToday ? 'No cleaning recorded today' : 'No cleaning recorded that day'}>{isToday ? 'Start a checklist above when you clean.' : 'Choose another day.'}</EmptyState> : null}
         {runs.data ? <RunList runs={runs.data.runs} isDevice={isDevice} canCorrect={!isDevice} userName={session.user?.displayName ?? ''} /> : null}
       </section>
       {canEdit ? (
