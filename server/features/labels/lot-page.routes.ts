@@ -1,14 +1,15 @@
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { eq } from 'drizzle-orm';
 import type { AppDeps } from '../../app';
 import { allow } from '../../middleware/access';
-import { batches } from '../../db/schema/batches';
 import { PUBLIC_CODE_PATTERN } from '../../../shared/domain/lot-page-url';
 import { LOT_PAGE_CSP, loadLotPage, renderLotNotFound, renderLotPage, renderLotTooMany } from './lot-page';
 
-/** Rendered pages are reused for this long unless the batch row changed (a recall changes it at once). */
-const CACHE_MS = 30_000;
+/**
+ * Rendered pages (and not-found answers) are reused for 5 s with no database work, so a burst of scans stays
+ * cheap; with the 60 s public max-age a recall reaches a phone within about a minute.
+ */
+const CACHE_MS = 5_000;
 const CACHE_MAX = 2_000;
 
 /**
@@ -16,7 +17,7 @@ const CACHE_MAX = 2_000;
  * A short public cache (60 s) so a recall shows quickly; noindex; generous per-address rate limit.
  */
 export function lotPageRouter({ db, now, config }: AppDeps) {
-  const cache = new Map<string, { key: string; expires: number; status: number; html: string }>();
+  const cache = new Map<string, { expires: number; status: number; html: string }>();
   const limiter = rateLimit({
     windowMs: 60_000, limit: config.lotPageLimitPerMinute ?? 300, standardHeaders: 'draft-8', legacyHeaders: false,
     handler: (_req, res) => {
@@ -33,16 +34,13 @@ export function lotPageRouter({ db, now, config }: AppDeps) {
     res.type('html');
     const code = String(req.params.publicCode);
     if (!PUBLIC_CODE_PATTERN.test(code)) return void res.status(404).send(renderLotNotFound());
-    const [head] = await db.select({ state: batches.state, version: batches.currentVersion, updatedAt: batches.updatedAt }).from(batches).where(eq(batches.publicCode, code));
-    if (!head) return void res.status(404).send(renderLotNotFound());
-    const key = `${head.state}|${head.version}|${head.updatedAt.getTime()}`;
     const t = now().getTime();
     const hit = cache.get(code);
-    if (hit && hit.key === key && hit.expires > t) return void res.status(hit.status).send(hit.html);
+    if (hit && hit.expires > t) return void res.status(hit.status).send(hit.html);
     const view = await loadLotPage(db, code);
     const entry = view ? { status: 200, html: renderLotPage(view) } : { status: 404, html: renderLotNotFound() };
     if (cache.size >= CACHE_MAX) cache.clear();
-    cache.set(code, { key, expires: t + CACHE_MS, ...entry });
+    cache.set(code, { expires: t + CACHE_MS, ...entry });
     res.status(entry.status).send(entry.html);
   });
 }
