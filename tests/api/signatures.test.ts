@@ -13,6 +13,8 @@ import { listCleaningRunsForRange } from '../../server/features/cleaning/cleanin
 // Electronic signatures on the 21 CFR Part 11 model: §11.50 (printed name, date and time, meaning),
 // §11.70 (bound to the record's content), §11.200 (the signer's own password, asked again).
 const t = makeTestApp();
+// Its own app, with sign-in's failure limit turned down to 3 (it also limits signing passwords).
+const strict = makeTestApp({ config: { signInLimitPerAccount: 3 } });
 
 /** A second helper in the same business, signed in. */
 async function secondHelper(business: TestBusiness) {
@@ -154,5 +156,20 @@ describe('signing a cleaning run', () => {
     const today = after.body.runDate;
     const [exported] = await listCleaningRunsForRange(t.db, business.businessId, { from: today, to: today });
     expect(exported!.versions[0]!.signature!.validityText).toBe('Signature invalid');
+  });
+
+  test('wrong signing passwords are throttled per person signed for, as sign-in is: a tablet cannot guess a password', async () => {
+    const { business, owner } = await businessWithAgents(strict);
+    const { templateId } = await cleaningSetup(owner);
+    const { agent: tablet } = await enrolledDeviceAgent(strict, owner);
+    const id = await completedRun(tablet, templateId);
+    const attempt = (password: string) => tablet.post(`/api/cleaning-runs/${id}/signatures`).send({ password, signerUserId: business.members.baker.userId });
+    for (let i = 0; i < 3; i++) expect((await attempt(`guess number ${i}`)).status).toBe(403);
+    const blocked = await attempt(TEST_PASSWORD);
+    expect(blocked.status).toBe(429);
+    expect(blocked.headers['retry-after']).toBeDefined();
+    expect(await signaturesOf(id)).toEqual([]);
+    // Another person's signature is not held up by the guesses.
+    expect((await tablet.post(`/api/cleaning-runs/${id}/signatures`).send({ password: TEST_PASSWORD, signerUserId: business.members.helper.userId })).status).toBe(201);
   });
 });
