@@ -118,3 +118,6 @@ export type SalesCapView = z.infer<typeof SalesCapViewSchema>;
 
 export const SalesPageSchema = z.object({ items: z.array(SaleSchema), totalCents: z.number().int() });
 export type SalesPage = z.infer<typeof SalesPageSchema>;
+
+/** Every channel, for filters (recording a sale offers only the profile's). */
+export const SALE_CHANNELS_FOR_FILTER = SaleChannelSchema.options;
