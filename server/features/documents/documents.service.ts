@@ -160,11 +160,11 @@ const dayWord = (n: number) => (n === 0 ? 'today' : n === 1 ? 'tomorrow' : `in $
  * stages it has reached, once ever (the dedupe key `doc-expiry:<versionId>:<stage>` is unique in the
  * outbox), so restarts and several processes running the scan at once send each reminder once.
  */
-export async function runReminderScan(deps: { db: Db; now: () => Date; publicBaseUrl: string }): Promise<{ queued: number }> {
+export async function runReminderScan(deps: { db: Db; now: () => Date; publicBaseUrl: string; businessId?: string }): Promise<{ queued: number }> {
   const now = deps.now();
   // A one-day margin either side covers every time zone; the exact day count uses the business zone.
   const utcToday = now.toISOString().slice(0, 10);
-  const rows = await currentVersionsExpiring(deps.db, { from: addCalendarDays(utcToday, -1), to: addCalendarDays(utcToday, EXPIRING_SOON_DAYS + 1) });
+  const rows = await currentVersionsExpiring(deps.db, { businessId: deps.businessId, from: addCalendarDays(utcToday, -1), to: addCalendarDays(utcToday, EXPIRING_SOON_DAYS + 1) });
   let queued = 0;
   for (const { v, kind } of rows) {
     const { today, name } = await todayFor(deps.db, v.businessId, now);

@@ -1,7 +1,8 @@
 import { SMTPServer } from 'smtp-server';
-import { simpleParser, type AddressObject } from 'mailparser';
+import { simpleParser, type AddressObject, type ParsedMail } from 'mailparser';
+import nodemailer, { type Transporter } from 'nodemailer';
 import { eq } from 'drizzle-orm';
-import type { Db } from '../../db/client';
+import type { Db, DbOrTx } from '../../db/client';
 import { capturedMail, mailOutbox } from '../../db/schema/mail';
 import type { Logger } from '../../lib/logger';
 
@@ -28,25 +29,8 @@ export async function startMailCapture(opts: { db: Db; port?: number; logger?: L
       let rawSize = 0;
       stream.on('data', (chunk: Buffer) => { rawSize += chunk.length; });
       simpleParser(stream)
-        .then(async (mail) => {
-          const outboxId = UUID.exec(mail.messageId ?? '')?.[1] ?? null;
-          const [outbox] = outboxId ? await opts.db.select({ businessId: mailOutbox.businessId }).from(mailOutbox).where(eq(mailOutbox.id, outboxId)) : [];
-          await opts.db.insert(capturedMail).values({
-            outboxId: outbox ? outboxId : null,
-            businessId: outbox?.businessId ?? null,
-            messageId: mail.messageId ?? null,
-            fromAddress: addressText(mail.from),
-            toAddress: addressText(mail.to),
-            subject: mail.subject ?? '',
-            sentDate: mail.date ?? null,
-            textBody: mail.text ?? null,
-            htmlBody: typeof mail.html === 'string' ? mail.html : null,
-            attachments: mail.attachments.map((a) => ({ filename: a.filename ?? 'attachment', contentType: a.contentType, size: a.size })),
-            rawSize,
-            receivedAt: now(),
-          });
-          callback();
-        })
+        .then((mail) => storeCapturedMail(opts.db, mail, rawSize, now()))
+        .then(() => callback())
         .catch((err: Error) => {
           opts.logger?.warn({ event: 'mail_capture_failed', err: err.message }, 'the local mail stand-in could not store a message');
           callback(err);
@@ -61,4 +45,41 @@ export async function startMailCapture(opts: { db: Db; port?: number; logger?: L
   const address = server.server.address();
   const port = typeof address === 'object' && address ? address.port : 0;
   return { port, close: () => new Promise<void>((resolve) => server.close(() => resolve())) };
+}
+
+/** Stores one parsed message as the Sent mail page shows it, matched to its business by the outbox id in its Message-ID. */
+export async function storeCapturedMail(db: DbOrTx, mail: ParsedMail, rawSize: number, receivedAt: Date): Promise<void> {
+  const outboxId = UUID.exec(mail.messageId ?? '')?.[1] ?? null;
+  const [outbox] = outboxId ? await db.select({ businessId: mailOutbox.businessId }).from(mailOutbox).where(eq(mailOutbox.id, outboxId)) : [];
+  await db.insert(capturedMail).values({
+    outboxId: outbox ? outboxId : null,
+    businessId: outbox?.businessId ?? null,
+    messageId: mail.messageId ?? null,
+    fromAddress: addressText(mail.from),
+    toAddress: addressText(mail.to),
+    subject: mail.subject ?? '',
+    sentDate: mail.date ?? null,
+    textBody: mail.text ?? null,
+    htmlBody: typeof mail.html === 'string' ? mail.html : null,
+    attachments: mail.attachments.map((a) => ({ filename: a.filename ?? 'attachment', contentType: a.contentType, size: a.size })),
+    rawSize,
+    receivedAt,
+  });
+}
+
+/**
+ * A transport that captures in-process instead of over SMTP: nodemailer builds the exact message,
+ * mailparser reads it back, and it is stored like the stand-in stores it. For the demo seed, which
+ * runs inside one transaction (pass that transaction as db).
+ */
+export function inProcessCaptureTransport(db: DbOrTx, receivedAt: () => Date): Pick<Transporter, 'sendMail'> {
+  const builder = nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' });
+  return {
+    sendMail: (async (message: Parameters<Transporter['sendMail']>[0]) => {
+      const info = await builder.sendMail(message);
+      const raw = info.message as Buffer;
+      await storeCapturedMail(db, await simpleParser(raw), raw.length, receivedAt());
+      return info;
+    }) as Transporter['sendMail'],
+  };
 }

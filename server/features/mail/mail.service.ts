@@ -58,6 +58,8 @@ export interface MailSenderDeps {
   from: string;
   logger?: Logger;
   batchSize?: number;
+  /** Send only this business's mail (the demo seed); the background sender sends everyone's. */
+  businessId?: string;
 }
 
 // A claimed row is leased for this long; a sender that dies mid-send lets another retry after it.
@@ -83,7 +85,7 @@ export async function runMailOnce(deps: MailSenderDeps): Promise<{ sent: number;
     const due = await tx
       .select({ id: mailOutbox.id })
       .from(mailOutbox)
-      .where(and(inArray(mailOutbox.status, ['queued', 'sending']), lte(mailOutbox.nextAttemptAt, now)))
+      .where(and(inArray(mailOutbox.status, ['queued', 'sending']), lte(mailOutbox.nextAttemptAt, now), deps.businessId ? eq(mailOutbox.businessId, deps.businessId) : undefined))
       .orderBy(mailOutbox.nextAttemptAt)
       .limit(deps.batchSize ?? 20)
       .for('update', { skipLocked: true });
