@@ -125,6 +125,12 @@ export function Component() {
           ))}
         </ol>
       </Card>
+      {canWrite ? (
+        <Card title="Labels">
+          <p className="mb-3 text-muted">Labels come from this batch&rsquo;s recorded data, after the label check.</p>
+          <ButtonLink to={`${paths.labels}?batchId=${batch.id}`}>Print labels for lot {batch.lotCode}</ButtonLink>
+        </Card>
+      ) : null}
       <BatchSections batch={batch} />
       {canWrite ? <StateChangeDialog key={batch.state} batch={batch} isOpen={isChanging} onClose={() => setIsChanging(false)} /> : null}
     </div>
