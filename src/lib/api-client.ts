@@ -130,6 +130,40 @@ async function postForBlob(url: string, body: unknown): Promise<{ blob: Blob; he
 }
 
 /**
+ * POST JSON and read a long download (the audit packet zip) as it streams, reporting the bytes
+ * received so far; the answer has no Content-Length, so progress is bytes, not a percentage.
+ */
+async function postForDownload(url: string, body: unknown, onBytes: (received: number) => void, signal?: AbortSignal): Promise<{ blob: Blob; headers: Headers }> {
+  const headers = { Accept: 'application/zip, application/json', 'Content-Type': 'application/json', 'X-CSRF-Token': await ensureCsrfToken() };
+  let res: Response;
+  try {
+    res = await fetch(url, { method: 'POST', headers, body: JSON.stringify(body), credentials: 'same-origin', signal });
+  } catch (err) {
+    if (err instanceof DOMException && err.name === 'AbortError') throw err;
+    throw new ApiError(0, 'network', 'Could not reach Crumbtrail. Check the connection and try again.');
+  }
+  contactListeners.forEach((l) => l());
+  if (!res.ok) throw await toApiError(res);
+  if (!res.body) return { blob: await res.blob(), headers: res.headers };
+  const reader = res.body.getReader();
+  const chunks: Uint8Array<ArrayBuffer>[] = [];
+  let received = 0;
+  try {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      chunks.push(value);
+      received += value.byteLength;
+      onBytes(received);
+    }
+  } catch (err) {
+    if (err instanceof DOMException && err.name === 'AbortError') throw err;
+    throw new ApiError(0, 'network', 'The download stopped before it was complete. Try again.');
+  }
+  return { blob: new Blob(chunks, { type: res.headers.get('Content-Type') ?? 'application/octet-stream' }), headers: res.headers };
+}
+
+/**
  * The only fetch in the client. Every response is validated with its zod schema; pass `null` as the
  * schema for 204 answers. Writes carry the session's X-CSRF-Token.
  */
@@ -143,4 +177,6 @@ export const api = {
   upload: <S extends z.ZodType>(url: string, schema: S | null, form: FormData, options?: RequestOptions) => send('POST', url, schema, form, options),
   /** POST that answers a file (e.g. a label PDF) as a Blob. */
   postForBlob,
+  /** POST that streams a long file back, with progress in bytes. */
+  postForDownload,
 };

@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, gt, sql } from 'drizzle-orm';
 import { recordEvents, type RecordEventRow } from '../../db/schema/record-events';
-import type { Db, DbOrTx } from '../../db/client';
+import type { DbOrTx } from '../../db/client';
 import { GENESIS_HASH, createChainVerifier, hashEntry, type ChainEntry, type ChainVerdict } from '../../../shared/domain/record-chain';
 import type { Actor } from '../../lib/actor';
 

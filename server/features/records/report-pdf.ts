@@ -38,6 +38,7 @@ export interface TableColumn {
 }
 
 // Lato covers Latin, Latin-1 and Latin Extended; control characters would draw as boxes.
+// eslint-disable-next-line no-control-regex -- stripping control characters is the point
 const printable = (s: string) => s.replace(/[\u0000-\u0008\u000b-\u001f\u007f]/g, ' ').replace(/\t/g, '  ');
 
 /**

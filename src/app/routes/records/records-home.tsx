@@ -1,7 +1,7 @@
 import { PageHeader } from '@/components/ui/page-header';
 import { InspectorLinksSection } from '@/features/records/components/inspector-links-section';
 import { DocumentsSection } from '@/features/records/components/documents-section';
-import { AuditPacketSection } from '@/features/records/components/audit-packet-section';
+import { AuditPacketPanel } from '@/features/records/components/audit-packet-panel';
 
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
 
@@ -11,7 +11,7 @@ export function Component() {
       <PageHeader title="Records" description="Your permits and certificates, and what you share with inspectors." />
       <DocumentsSection />
       <InspectorLinksSection />
-      <AuditPacketSection />
+      <AuditPacketPanel />
     </div>
   );
 }
