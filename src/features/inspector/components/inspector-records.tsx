@@ -48,7 +48,7 @@ export function InspectorRecordsView({ records, timeZone }: { records: Inspector
           <tbody>
             {records.batches.map((b) => (
               <tr key={b.id}>
-                <th scope="row" className={`${cell} text-left font-bold tabular`}>{b.lotCode}</th>
+                <th scope="row" className={`${cell} text-left font-bold tabular whitespace-nowrap`}>{b.lotCode}</th>
                 <td className={cell}>{b.productName}</td>
                 <td className={`${cell} tabular`}>{b.madeOn}</td>
                 <td className={cell}>{isBatchState(b.state) ? <BatchStateBadge state={b.state} /> : b.state}</td>
@@ -65,7 +65,7 @@ export function InspectorRecordsView({ records, timeZone }: { records: Inspector
           <tbody>
             {records.holdingPeriods.map((h) => (
               <tr key={h.id}>
-                <th scope="row" className={`${cell} text-left font-bold tabular`}>{h.lotCode}</th>
+                <th scope="row" className={`${cell} text-left font-bold tabular whitespace-nowrap`}>{h.lotCode}</th>
                 <td className={cell}>{KIND_WORDS[h.kind] ?? h.kind}</td>
                 <td className={cell}>{minutes(h.limitMinutes)}<span className="block text-sm text-muted">{POLICY_WORDS[h.policy] ?? h.policy}</span></td>
                 <td className={`${cell} tabular`}>{at(h.startedAt)}<span className="block text-sm text-muted">by {h.startedByName}</span></td>
