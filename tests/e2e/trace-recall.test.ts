@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { checkA11y, describeViolations, launchBrowser, newPage, signInInBrowser, startE2eServer, type E2eServer } from '../support/e2e';
 import { createTestBusiness, TEST_PASSWORD, type TestBusiness } from '../support/agents';
-import { ownerActor, recallChain } from '../support/sales-fixtures';
+import { ownerActor, recallChain, setRuleProfile } from '../support/sales-fixtures';
 import { createSale } from '../../server/features/sales/sales.service';
 import { startMailCapture, type MailCapture } from '../../server/features/mail/mail-capture';
 import { createMailTransport, runMailOnce } from '../../server/features/mail/mail.service';
@@ -83,6 +83,46 @@ describe('trace and recall in the browser', () => {
       await page.getByRole('heading', { level: 1, name: 'Sent mail' }).waitFor();
       await page.getByText(/Recall notice from/).first().waitFor();
       expect(await page.textContent('main')).toContain('odile.marsh@example.test');
+    } finally {
+      await context.close();
+    }
+  }, 180_000);
+
+  // us-tx-2025-09: $100,000 cap from the filed S.B. 541 versions, shipped as unverified; direct, event and online only.
+  test('a baker records a sale with a new customer on the Sales screen; the cap meter shows word, figure and source', async () => {
+    const t = server.t;
+    const other = await createTestBusiness(t);
+    await setRuleProfile(t, other.businessId, 'us-tx-2025-09');
+    const chain = await recallChain(t, other);
+    await createSale(t.db, ownerActor(other), { batchId: chain.productA.id, quantity: 200, unit: 'packages', amountCents: 7_600_000, channel: 'event' }, t.clock.now);
+    const { context, page } = await newPage(browser);
+    try {
+      await signInInBrowser(page, server.baseUrl, other.members.baker.email, TEST_PASSWORD);
+      await page.goto(`${server.baseUrl}/sales`);
+      await page.getByRole('heading', { level: 1, name: 'Sales' }).waitFor();
+      const meter = page.getByTestId('cap-meter');
+      await meter.getByText('Past 75 %', { exact: true }).waitFor();
+      expect(await meter.textContent()).toContain('$76,000.00 of $100,000.00 (76.0 %)');
+      await meter.getByText('Unverified', { exact: true }).waitFor();
+      // Wholesale is not offered under this profile.
+      const form = page.getByRole('form', { name: 'Record a sale' });
+      expect(await form.getByLabel('Channel', { exact: true }).locator('option').allTextContents()).toEqual(['Direct (in person)', 'Event or market', 'Online order']);
+      expect(describeViolations(await checkA11y(page))).toEqual([]);
+      await form.getByLabel('Batch').selectOption(chain.productB.id);
+      await form.getByLabel('Quantity').fill('3');
+      await form.getByLabel('Amount (US dollars)').fill('18.5');
+      await form.getByLabel('A new customer').check();
+      await form.getByLabel('Name').fill('Juno Ferris');
+      await page.getByRole('button', { name: 'Record sale' }).click();
+      // Neither an e-mail nor a phone: the form says so next to the field.
+      await page.getByText('Enter an e-mail address or a phone number').waitFor();
+      await form.getByRole('textbox', { name: 'E-mail (optional)' }).fill('juno.ferris@example.test');
+      await page.getByRole('button', { name: 'Record sale' }).click();
+      await page.getByRole('rowheader', { name: chain.productB.lotCode }).waitFor();
+      expect(await page.getByRole('table').first().textContent()).toContain('$18.50');
+      // A baker never sees the contact back.
+      expect(await page.textContent('main')).not.toContain('Juno Ferris');
+      expect(describeViolations(await checkA11y(page))).toEqual([]);
     } finally {
       await context.close();
     }
