@@ -57,7 +57,7 @@ beforeAll(async () => {
   ing.almond = (await createIngredient(t, business.businessId, { labelName: 'Almond flour', allergens: [{ source: 'tree_nut', kind: 'almond' }] })).id;
 });
 
-async function create(agent: ApiAgent, body: unknown) {
+async function create(agent: ApiAgent, body: object) {
   const res = await agent.post('/api/recipes').send(body);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body as RecipeDetail;
