@@ -12,6 +12,7 @@ import { batches, batchInputs, batchStateChanges, batchVersions } from '../../se
 import { mailOutbox } from '../../server/db/schema/mail';
 import { createMailTransport, runMailOnce } from '../../server/features/mail/mail.service';
 import { listRecallsForRange } from '../../server/features/trace/recalls.service';
+import { pdfFonts, pdfText } from '../support/label-batches';
 
 const t = makeTestApp();
 let smtp: Awaited<ReturnType<typeof startTestSmtp>>;
@@ -85,7 +86,7 @@ describe('trace and recall', () => {
     expect((await owner.get('/api/trace').query({ supplierLotId: chain.sprinklesLot.id, batchId: chain.productA.id })).status).toBe(400);
   });
 
-  test('a recall moves the batches to recalled with history, changes their lot pages at once, and e-mails consenting customers once', async () => {
+  test('a recall moves the batches to recalled with history, changes their lot pages within seconds, and e-mails consenting customers once', async () => {
     const { business, owner, baker } = await businessWithAgents(t);
     const chain = await recallChain(t, business);
     const buy = (batchId: string, newCustomer?: Record<string, unknown>) => owner.post('/api/sales').send({ batchId, quantity: 4, unit: 'pieces', amountCents: 1200, channel: 'event', ...(newCustomer ? { newCustomer } : {}) });
@@ -117,7 +118,8 @@ describe('trace and recall', () => {
     const history = await t.db.select().from(batchStateChanges).where(eq(batchStateChanges.batchId, chain.productA.id));
     expect(history.map((h) => h.toState)).toEqual(['in_progress', 'released', 'recalled']);
 
-    // The lot page shows the notice on the very next request.
+    // The lot page keeps a rendered page for 5 s (its in-process cache); after that it shows the notice.
+    t.clock.advance(6_000);
     const after = await lotPage(chain.productA.publicCode);
     expect(after).toContain('These pops may contain milk');
     expect(await lotPage(chain.unrelated.publicCode)).not.toContain('may contain milk');
@@ -159,6 +161,29 @@ describe('trace and recall', () => {
     const closed = await owner.post(`/api/recalls/${opened.body.id}/close`).send({ note: 'All stock back or thrown away' });
     expect(closed.body.status).toBe('closed');
     expect((await owner.post(`/api/recalls/${opened.body.id}/close`).send({ note: 'Again' })).status).toBe(409);
+  });
+
+  test('the printable PDF report lists the tree and, for the owner only, the contacts; Lato is embedded', async () => {
+    const { business, owner, helper } = await businessWithAgents(t);
+    const chain = await recallChain(t, business);
+    await owner.post('/api/sales').send({ batchId: chain.productA.id, quantity: 1, unit: 'packages', amountCents: 600, channel: 'direct', newCustomer: { name: 'Zélie Ånström', email: 'zelie@example.test', recallConsent: true } });
+    const get = (agent: typeof owner) => agent.get('/api/trace/report.pdf').query({ supplierLotId: chain.sprinklesLot.id }).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    const mine = await get(owner);
+    expect(mine.status).toBe(200);
+    expect(mine.headers['content-type']).toBe('application/pdf');
+    const text = (await pdfText(mine.body)).join('\n');
+    for (const b of [chain.frosting, chain.productA, chain.productB]) expect(text).toContain(b.lotCode);
+    expect(text).not.toContain(chain.unrelated.lotCode);
+    expect(text).toContain('Zélie Ånström, zelie@example.test');
+    expect((await pdfFonts(mine.body)).every((f) => f.embedded)).toBe(true);
+    const theirs = (await pdfText((await get(helper)).body)).join('\n');
+    expect(theirs).toContain(chain.productA.lotCode);
+    expect(theirs).not.toContain('zelie@example.test');
+    expect(theirs).not.toContain('Zélie');
   });
 
   test('a recall of chosen batches also covers what was made from them; tenancy holds', async () => {

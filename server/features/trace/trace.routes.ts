@@ -4,7 +4,7 @@ import { allow, MEMBERS } from '../../middleware/access';
 import { IdParamsSchema } from '../../../shared/contracts/errors';
 import { CloseRecallInputSchema, OpenRecallInputSchema, PhoneNoticeInputSchema, RecallCustomerParamsSchema, TraceQuerySchema } from '../../../shared/contracts/trace';
 import { registerRecallNoticeProvider } from '../labels/lot-page';
-import { trace, traceOptions } from './trace.service';
+import { trace, traceOptions, traceReport } from './trace.service';
 import { closeRecall, getRecall, listRecalls, markToldByPhone, openRecall, recallNoticeForBatch } from './recalls.service';
 
 // The public lot page of a recalled batch shows the recall's notice.
@@ -18,6 +18,11 @@ export function traceRouter({ db, now }: AppDeps) {
     })
     .get('/options', allow(...MEMBERS, 'inspector'), async (req, res) => {
       res.json(await traceOptions(db, req.actor!));
+    })
+    .get('/report.pdf', allow(...MEMBERS, 'inspector'), async (req, res) => {
+      const { bytes, fileName } = await traceReport(db, req.actor!, TraceQuerySchema.parse(req.query), now());
+      res.set({ 'Content-Type': 'application/pdf', 'Content-Disposition': `inline; filename="${fileName}"`, 'Cache-Control': 'no-store' });
+      res.send(Buffer.from(bytes));
     });
 }
 

@@ -7,6 +7,8 @@ import { sales } from '../../db/schema/sales';
 import { customerContacts, customers } from '../../db/schema/customers';
 import type { Actor } from '../../lib/actor';
 import { notFound } from '../../lib/http-error';
+import { businesses } from '../../db/schema/business';
+import { renderTraceReportPdf } from './trace-report';
 import { currentIngredients } from '../batches/batches.queries';
 import { canSeeContacts } from '../sales/sales.service';
 import { batchesDownstreamOfBatch, batchesDownstreamOfSupplierLot, supplierLotsUpstreamOfBatch, type TraceEdge } from '../../../shared/domain/trace';
@@ -180,4 +182,12 @@ export async function traceOptions(db: DbOrTx, actor: Actor): Promise<TraceOptio
     ingredients: [...names.values()].map((i) => ({ id: i.id, name: i.labelName })).sort((a, b) => a.name.localeCompare(b.name)),
     batches: list.map((b) => ({ ...b, state: b.state as BatchState })),
   };
+}
+
+/** The trace as a PDF (contacts only in the owner's copy, as on screen). */
+export async function traceReport(db: DbOrTx, actor: Actor, q: TraceQuery, now: Date): Promise<{ bytes: Uint8Array; fileName: string }> {
+  const result = await trace(db, actor, q, now);
+  const [b] = await db.select({ name: businesses.name, timeZone: businesses.timeZone }).from(businesses).where(eq(businesses.id, actor.businessId));
+  const bytes = await renderTraceReportPdf(result, b!.name, b!.timeZone);
+  return { bytes, fileName: `trace-${result.direction}-${now.toISOString().slice(0, 10)}.pdf` };
 }

@@ -78,7 +78,10 @@ export function Component() {
         ) : result.isPending ? <LoadingBlock label="Tracing…" /> : data ? (
           <section aria-labelledby="trace-heading" className="space-y-4">
             <h2 id="trace-heading" className="text-xl font-bold">{data.direction === 'forward' ? 'Forward' : 'Backward'} from {data.start.label}</h2>
-            <p className="text-sm text-muted">Report made {new Date(data.generatedAt).toLocaleString()}. {data.batches.length} {data.batches.length === 1 ? 'batch' : 'batches'} found.</p>
+            <p className="text-sm text-muted">
+              Report made {new Date(data.generatedAt).toLocaleString()}. {data.batches.length} {data.batches.length === 1 ? 'batch' : 'batches'} found.{' '}
+              <a data-print="hide" className="text-berry underline" href={`/api/trace/report.pdf?${new URLSearchParams(q as Record<string, string>).toString()}`} target="_blank" rel="noreferrer">Download the report as PDF</a>
+            </p>
             {data.direction === 'backward' ? (
               <>
                 <h3 className="font-bold">Supplier lots that went in</h3>
