@@ -42,7 +42,7 @@ const CSV_CHUNK_ROWS = 500;
 export const auditPacketFileName = (range: AuditPacketInput) => `audit-packet-${range.from}-to-${range.to}.zip`;
 
 /** Writes one table as RFC 4180 CSV: UTF-8 without BOM, CRLF, header line, formula cells escaped (OWASP CSV Injection). */
-async function writeCsv(tx: DbOrTx, table: PacketTable, write: (chunk: string) => Promise<void>): Promise<number> {
+export async function writeCsv(tx: DbOrTx, table: PacketTable, write: (chunk: string) => Promise<void>): Promise<number> {
   const opts = { record_delimiter: 'windows' as const };
   await write(stringify([table.columns.map(([h]) => h)], opts));
   let rows = 0;
