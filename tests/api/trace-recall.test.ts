@@ -33,7 +33,7 @@ describe('trace on generated graphs', () => {
       fc.array(fc.tuple(fc.subarray([...Array(lotCount).keys()]), fc.subarray([...Array(batchCount).keys()])), { minLength: batchCount, maxLength: batchCount }),
     )));
     await fc.assert(fc.asyncProperty(graph, async ([lotCount, uses]) => {
-      const lots = [];
+      const lots: { id: string }[] = [];
       for (let i = 0; i < lotCount; i += 1) lots.push(await createSupplierLot(t, business.businessId, { ingredientId: ingredient.id }));
       day += 1;
       const madeOn = addCalendarDays('2020-01-01', day); // one day per generated graph keeps day sequences unique
