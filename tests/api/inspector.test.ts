@@ -104,6 +104,24 @@ describe('inspector links', () => {
     expect(session.body.businessName).toBe(business.name);
   });
 
+  test('the inspector downloads the packet for exactly the link range', async () => {
+    const { owner } = await businessWithAgents(t);
+    const created = await issue(owner, { rangeFrom: addCalendarDays(today(), -7), rangeTo: today() });
+    const { inspector } = await openLink(created.url);
+    await inspector.refreshCsrf();
+    expect((await inspector.get('/api/inspector/session')).body.packetAvailable).toBe(true);
+    const res = await inspector.post('/api/inspector/audit-packet').send({ from: '2000-01-01', to: today() }).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toContain('application/zip');
+    // The file name carries the link's range, not the one the request asked for.
+    expect(res.headers['content-disposition']).toContain(addCalendarDays(today(), -7));
+    expect((res.body as Buffer).subarray(0, 2).toString('latin1')).toBe('PK');
+  });
+
   test('expiry: the session ends on the next request and the link shows a plain 410 page', async () => {
     const { owner } = await businessWithAgents(t);
     const created = await issue(owner, { validDays: 1 });

@@ -8,6 +8,7 @@ import { regenerateSession, saveSession, ensureCsrfToken, destroySession } from 
 import { documentFile } from '../documents/documents.service';
 import { sameSiteOnly } from '../documents/documents.routes';
 import { allergenMatrix } from '../recipes/recipes.service';
+import { sendAuditPacket } from '../records/audit-packet.routes';
 import {
   createInspectorLink,
   inspectorRecords,
@@ -50,10 +51,15 @@ export function inspectorRouter(deps: AppDeps) {
   return Router()
     .use(logView)
     .get('/session', allow('inspector'), async (req, res) => {
-      res.json(await inspectorSession(db, req.actor!, linkId(req), false));
+      res.json(await inspectorSession(db, req.actor!, linkId(req), true));
     })
     .get('/records', allow('inspector'), async (req, res) => {
       res.json(await inspectorRecords(db, req.actor!, linkId(req), deps.now()));
+    })
+    // The packet for exactly the link's range: an inspector cannot choose another one.
+    .post('/audit-packet', allow('inspector'), async (req, res) => {
+      const s = await inspectorSession(db, req.actor!, linkId(req), true);
+      await sendAuditPacket(deps, req, res, { from: s.rangeFrom, to: s.rangeTo });
     })
     .get('/allergen-matrix', allow('inspector'), async (req, res) => {
       res.json(await allergenMatrix(db, req.actor!, {}));

@@ -8,6 +8,7 @@ import { LoadingBlock } from '@/components/ui/spinner';
 import { inspectorQueries } from '@/features/inspector/api';
 import { InspectorRecordsView } from '@/features/inspector/components/inspector-records';
 import { InspectorAllergenMatrix } from '@/features/inspector/components/inspector-allergen-matrix';
+import { InspectorPacketButton } from '@/features/inspector/components/inspector-packet-button';
 
 import { RouteErrorBoundary, StandaloneFrame } from '../../route-error';
 
@@ -94,6 +95,7 @@ export function Component() {
             </dl>
           </div>
           <div className="flex flex-wrap gap-3" data-print="hide">
+            {s.packetAvailable ? <InspectorPacketButton /> : null}
             <Button variant="secondary" onClick={() => window.print()}>Print these records</Button>
           </div>
         </div>
