@@ -9,7 +9,7 @@ const today = () => t.clock.now.toISOString().slice(0, 10);
 
 // Customer contacts are the owner's alone: an inspector's link and a helper read sales figures, never who bought.
 describe('customer contacts stay with the owner', () => {
-  test('GET /api/sales, /api/sales/cap and the inspector records carry no contact fields for an inspector or a helper', async () => {
+  test('the inspector records carry no contact fields, inspectors may not read sales, and helpers see sales without contacts', async () => {
     const { owner, helper, business } = await businessWithAgents(t);
     const chain = await recallChain(t, business);
     const contact = { name: 'Wren Castellano', email: 'wren.castellano@example.test', phone: '555-0163', recallConsent: true };
@@ -23,13 +23,17 @@ describe('customer contacts stay with the owner', () => {
     expect((await inspector.agent.get(new URL(link.body.url).pathname)).status).toBe(303);
 
     for (const [who, agent] of [['inspector', inspector], ['helper', helper]] as const) {
-      const urls = ['/api/sales', '/api/sales/cap', ...(who === 'inspector' ? ['/api/inspector/records'] : [])];
+      const urls = who === 'inspector' ? ['/api/inspector/records'] : ['/api/sales', '/api/sales/cap'];
       for (const url of urls) {
         const res = await agent.get(url);
         expect(res.status, `${who} ${url}`).toBe(200);
         const body = JSON.stringify(res.body);
         for (const secret of [contact.name, contact.email, contact.phone]) expect(body, `${who} ${url}`).not.toContain(secret);
         expect(body, `${who} ${url}`).not.toMatch(/"(customer|contact|email|phone)":/);
+      }
+      if (who === 'inspector') {
+        for (const url of ['/api/sales', '/api/sales/cap', '/api/customers']) expect((await agent.get(url)).status, url).toBe(403);
+        continue;
       }
       const list = await agent.get('/api/sales');
       expect(list.body.items.find((s: { id: string }) => s.id === created.body.id)).toMatchObject({ hasCustomer: true, amountCents: 1200 });

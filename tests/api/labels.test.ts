@@ -165,7 +165,7 @@ describe('the public lot page', () => {
     for (const m of Object.values(business.members)) expect(res.text).not.toContain(m.displayName);
     expect(res.text).not.toContain('9 Alder Row'); // street address is on the label, not the public page
     expect(res.headers['x-robots-tag']).toMatch(/noindex/);
-    expect(res.headers['cache-control']).toBe('public, max-age=60');
+    expect(res.headers['cache-control']).toBe('public, max-age=10');
     const csp = res.headers['content-security-policy'];
     expect(csp).toContain("default-src 'none'");
     expect(csp).not.toContain('unsafe-inline');

@@ -1,4 +1,5 @@
 import { Router, type Request, type Response } from 'express';
+import { forgetCachedLotPages } from '../labels/lot-page.routes';
 import type { AppDeps } from '../../app';
 import { allow, EDITORS, MEMBERS } from '../../middleware/access';
 import type { Actor } from '../../lib/actor';
@@ -47,5 +48,6 @@ export function batchesRouter({ db, now }: AppDeps) {
       const opts = writeOptions(req, res);
       const { id } = IdParamsSchema.parse(req.params);
       res.json(await changeBatchState(db, actorOf(req), id, ChangeBatchStateInputSchema.parse(req.body), now(), opts));
+      forgetCachedLotPages();
     });
 }

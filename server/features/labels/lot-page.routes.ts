@@ -7,17 +7,25 @@ import { LOT_PAGE_CSP, loadLotPage, renderLotNotFound, renderLotPage, renderLotT
 
 /**
  * Rendered pages (and not-found answers) are reused for 5 s with no database work, so a burst of scans stays
- * cheap; with the 60 s public max-age a recall reaches a phone within about a minute.
+ * cheap. A recall or a batch state change empties the cache of this process at once (see forgetCachedLotPages);
+ * browsers may keep a page for 10 s.
  */
 const CACHE_MS = 5_000;
 const CACHE_MAX = 2_000;
+const liveCaches = new Set<Map<string, unknown>>();
+
+/** Called after a recall opens or closes, or a batch changes state, so the next scan shows it. */
+export function forgetCachedLotPages(): void {
+  for (const cache of liveCaches) cache.clear();
+}
 
 /**
  * GET /lot/:publicCode: the page a label's QR opens. No sign-in, no JavaScript, only public fields.
- * A short public cache (60 s) so a recall shows quickly; noindex; generous per-address rate limit.
+ * A short public cache (10 s) so a recall shows quickly; noindex; generous per-address rate limit.
  */
 export function lotPageRouter({ db, now, config }: AppDeps) {
   const cache = new Map<string, { expires: number; status: number; html: string }>();
+  liveCaches.add(cache);
   const limiter = rateLimit({
     windowMs: 60_000, limit: config.lotPageLimitPerMinute ?? 300, standardHeaders: 'draft-8', legacyHeaders: false,
     handler: (_req, res) => {
@@ -28,7 +36,7 @@ export function lotPageRouter({ db, now, config }: AppDeps) {
     res.set({
       'Content-Security-Policy': LOT_PAGE_CSP,
       'X-Robots-Tag': 'noindex, nofollow',
-      'Cache-Control': 'public, max-age=60',
+      'Cache-Control': 'public, max-age=10',
       'Referrer-Policy': 'no-referrer',
     });
     res.type('html');

@@ -9,13 +9,13 @@ import { createCustomer, createSale, eraseCustomer, listCustomers, listSales, sa
 // The year's total against the cottage-food cap, on the Kitchen board from 75 %.
 registerKitchenBoardSection(salesCapSection);
 
-/** Sales: members and inspectors read (never contacts unless owner); owners and bakers record and void. */
+/** Sales: members read (contacts only for the owner; inspectors never); owners and bakers record and void. */
 export function salesRouter({ db, now }: AppDeps) {
   return Router()
-    .get('/', allow(...MEMBERS, 'inspector'), async (req, res) => {
+    .get('/', allow(...MEMBERS), async (req, res) => {
       res.json(await listSales(db, req.actor!, ListSalesQuerySchema.parse(req.query)));
     })
-    .get('/cap', allow(...MEMBERS, 'inspector'), async (req, res) => {
+    .get('/cap', allow(...MEMBERS), async (req, res) => {
       res.json(await salesCapView(db, req.actor!, now()));
     })
     .post('/', allow(...EDITORS), async (req, res) => {
