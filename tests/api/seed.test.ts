@@ -1,4 +1,5 @@
-import { describe, expect, test } from 'vitest';
+import { afterAll, describe, expect, test } from 'vitest';
+import { freshDatabase } from '../support/db';
 import { eq } from 'drizzle-orm';
 import os from 'node:os';
 import path from 'node:path';
@@ -10,7 +11,10 @@ import { verifyBusinessChain } from '../../server/features/records/record-events
 import { ApiAgent } from '../support/agents';
 import { DEMO_ACCOUNTS } from '../../server/db/seed/demo-accounts';
 
-const t = makeTestApp({ config: { demoMode: true, demoAccounts: DEMO_ACCOUNTS } });
+// A database of its own: other files (browser tests) may load the demo into the shared per-run one.
+const fresh = await freshDatabase('seed');
+afterAll(() => fresh.drop());
+const t = makeTestApp({ config: { demoMode: true, demoAccounts: DEMO_ACCOUNTS }, databaseUrl: fresh.runtimeUrl });
 
 describe('the invented demo', () => {
   test('loads every feature step once, and its record chain verifies', async () => {

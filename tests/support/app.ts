@@ -12,6 +12,8 @@ export interface TestAppOptions {
   config?: Partial<AppConfig>;
   now?: () => Date;
   deps?: Partial<CreateAppInput>;
+  /** Another database than the per-run one (see freshDatabase). */
+  databaseUrl?: string;
 }
 
 export interface TestApp {
@@ -25,7 +27,7 @@ export interface TestApp {
 
 // Test passwords hash with the OWASP minimum parameters; tests that check rehashing pass their own.
 export function makeTestApp(options: TestAppOptions = {}): TestApp {
-  const pool = testPool('runtime');
+  const pool = options.databaseUrl ? new pg.Pool({ connectionString: options.databaseUrl, max: 5 }) : testPool('runtime');
   const db = testDb(pool);
   // Real time plus an offset the test can move.
   let offset = 0;
