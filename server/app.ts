@@ -133,6 +133,8 @@ export function createApp(input: CreateAppInput) {
   app.disable('x-powered-by');
   if (config.trustProxy) app.set('trust proxy', 1);
   app.use((req, _res, next) => (req.method === 'TRACE' || req.method === 'TRACK' ? next(new HttpError(405, 'forbidden', 'Method not allowed.')) : next()));
+  // Before request logging, helmet and sessions: the lot page sets its own headers and is the hot public path.
+  app.use(lotPageRouter(deps));
   app.use(requestContext(logger));
   const isHttps = config.publicBaseUrl.startsWith('https://');
   app.use(
@@ -229,9 +231,8 @@ function mountApiRoutes(api: Router, deps: AppDeps) {
   api.use('/recalls', recallsRouter(deps));
 }
 
-/** Pages served outside /api: the public lot page, the inspector link exchange. */
+/** Pages served outside /api: the inspector link exchange, calendar feeds (the lot page is mounted first). */
 function mountPublicRoutes(app: express.Express, deps: AppDeps, sessionMiddleware: RequestHandler) {
-  app.use(lotPageRouter(deps));
   app.get('/inspect/:token', allow('public'), sessionMiddleware, inspectorExchangeRoute(deps));
   app.use('/inspector', noReferrer);
   app.get('/calendar/:file', allow('public'), calendarFeedPublicRoute(deps));

@@ -1,4 +1,5 @@
-import { Router } from 'express';
+import crypto from 'node:crypto';
+import { Router, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { AppDeps } from '../../app';
 import { allow } from '../../middleware/access';
@@ -24,31 +25,48 @@ export function forgetCachedLotPages(): void {
  * A short public cache (10 s) so a recall shows quickly; noindex; generous per-address rate limit.
  */
 export function lotPageRouter({ db, now, config }: AppDeps) {
-  const cache = new Map<string, { expires: number; status: number; html: string }>();
+  const cache = new Map<string, CachedPage>();
   liveCaches.add(cache);
+  // Mounted before helmet and request logging (server/app.ts), so the headers a public page needs are set here.
+  const headers: Record<string, string> = {
+    'Content-Security-Policy': LOT_PAGE_CSP,
+    'X-Robots-Tag': 'noindex, nofollow',
+    'Cache-Control': 'public, max-age=10',
+    'Referrer-Policy': 'no-referrer',
+    'X-Content-Type-Options': 'nosniff',
+    'Content-Type': 'text/html; charset=utf-8',
+    ...(config.publicBaseUrl.startsWith('https://') ? { 'Strict-Transport-Security': 'max-age=31536000; includeSubDomains' } : {}),
+  };
+  const notFound = toCached(404, renderLotNotFound());
   const limiter = rateLimit({
     windowMs: 60_000, limit: config.lotPageLimitPerMinute ?? 300, standardHeaders: 'draft-8', legacyHeaders: false,
     handler: (_req, res) => {
-      res.status(429).set({ 'Content-Security-Policy': LOT_PAGE_CSP, 'Retry-After': '60', 'Cache-Control': 'no-store' }).type('html').send(renderLotTooMany());
+      res.status(429).set({ ...headers, 'Retry-After': '60', 'Cache-Control': 'no-store' }).send(renderLotTooMany());
     },
   });
   return Router().get('/lot/:publicCode', allow('public'), limiter, async (req, res) => {
-    res.set({
-      'Content-Security-Policy': LOT_PAGE_CSP,
-      'X-Robots-Tag': 'noindex, nofollow',
-      'Cache-Control': 'public, max-age=10',
-      'Referrer-Policy': 'no-referrer',
-    });
-    res.type('html');
+    res.set(headers);
     const code = String(req.params.publicCode);
-    if (!PUBLIC_CODE_PATTERN.test(code)) return void res.status(404).send(renderLotNotFound());
+    if (!PUBLIC_CODE_PATTERN.test(code)) return void send(res, notFound);
     const t = now().getTime();
     const hit = cache.get(code);
-    if (hit && hit.expires > t) return void res.status(hit.status).send(hit.html);
+    if (hit && hit.expires > t) return void send(res, hit);
     const view = await loadLotPage(db, code);
-    const entry = view ? { status: 200, html: renderLotPage(view) } : { status: 404, html: renderLotNotFound() };
+    const entry = view ? toCached(200, renderLotPage(view), t + CACHE_MS) : { ...notFound, expires: t + CACHE_MS };
     if (cache.size >= CACHE_MAX) cache.clear();
-    cache.set(code, { expires: t + CACHE_MS, ...entry });
-    res.status(entry.status).send(entry.html);
+    cache.set(code, entry);
+    send(res, entry);
   });
+}
+
+interface CachedPage { expires: number; status: number; body: Buffer; etag: string }
+
+// The body and its ETag are made once per render, not on every cache hit.
+function toCached(status: number, html: string, expires = 0): CachedPage {
+  const body = Buffer.from(html);
+  return { expires, status, body, etag: `"${crypto.createHash('sha1').update(body).digest('base64url')}"` };
+}
+
+function send(res: Response, page: CachedPage) {
+  res.status(page.status).set('ETag', page.etag).send(page.body);
 }
