@@ -168,7 +168,8 @@ export function createApp(input: CreateAppInput) {
   const sessionMiddleware = session({
     name: config.cookieName,
     secret: config.sessionSecret,
-    store: new PgStore({ pool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    // No touch (an UPDATE on every request): the row is saved when loadActor moves lastSeenAt, at most once a minute.
+    store: new PgStore({ pool, tableName: 'user_sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60, disableTouch: true }),
     resave: false,
     saveUninitialized: false,
     rolling: true,

@@ -9,6 +9,16 @@ import type { Role } from '../../shared/contracts/auth';
 export const IDLE_TIMEOUT_MS = 30 * 60 * 1000;
 export const ABSOLUTE_TIMEOUT_MS = 12 * 60 * 60 * 1000;
 
+/**
+ * lastSeenAt is rewritten (and so the session row saved) at most this often, so an active member's requests do not
+ * each write the session. The idle limit is measured from the recorded value: a member is signed out between
+ * 29 and 30 minutes after their last request, never later (decision 013).
+ */
+export const LAST_SEEN_RESOLUTION_MS = 60 * 1000;
+
+/** Requests with this header set to '1' (background polling) do not count as a member's activity. */
+export const BACKGROUND_REFRESH_HEADER = 'X-Background-Refresh';
+
 export interface ActorResolver {
   /** Resolves non-member sessions (kitchen devices, inspector links); added by those features. */
   (db: Db, session: Request['session'], now: Date): Promise<Actor | undefined>;
@@ -49,7 +59,9 @@ export function loadActor(db: Db, now: () => Date, resolvers: Partial<Record<'de
         return next();
       }
     }
-    s.lastSeenAt = t;
+    // Devices and inspector links have no idle limit but still need the occasional save to keep their store row.
+    const isBackground = s.kind === 'member' && req.get(BACKGROUND_REFRESH_HEADER) === '1';
+    if (!isBackground && t - (s.lastSeenAt ?? 0) >= LAST_SEEN_RESOLUTION_MS) s.lastSeenAt = t;
     res.locals.actor = req.actor;
     next();
   };

@@ -37,7 +37,7 @@ export function setCsrfToken(token: string): void {
 
 type Listener = () => void;
 const contactListeners = new Set<Listener>();
-/** Called after every answered request: each one extends the server's rolling session. */
+/** Called after every answered request except background polls: each one extends the server's idle time. */
 export function onServerContact(listener: Listener): () => void {
   contactListeners.add(listener);
   return () => contactListeners.delete(listener);
@@ -94,7 +94,8 @@ async function send<S extends z.ZodType>(method: string, url: string, schema: S 
     if (err instanceof DOMException && err.name === 'AbortError') throw err;
     throw new ApiError(0, 'network', 'Could not reach Crumbtrail. Check the connection and try again.');
   }
-  contactListeners.forEach((l) => l());
+  // Background polling does not extend the server's idle time, so it must not move the idle warning either.
+  if (headers['X-Background-Refresh'] !== '1') contactListeners.forEach((l) => l());
   if (res.status === 403 && isWrite && !isRetry) {
     // A write refused as forbidden may just carry a stale CSRF token (the session ended or was
     // reissued): if the session now has another token, retry once. An ended session then answers 401.

@@ -92,6 +92,34 @@ describe('session timeouts (NIST SP 800-63B AAL2: 30 min idle, 12 h absolute)', 
     expect((await agent.get('/api/team/members')).status).toBe(401);
   });
 
+  test('idle time is recorded to the minute: requests within a minute do not rewrite the session', async () => {
+    const app = makeTestApp();
+    const b = await createTestBusiness(app);
+    const agent = await signedInAgent(app, b, 'baker');
+    const seen = async () => Date.parse((await agent.get('/api/auth/session')).body.idleExpiresAt);
+    const first = await seen();
+    app.clock.advance(30 * 1000);
+    expect(await seen()).toBe(first);
+    app.clock.advance(31 * 1000); // 61 s since sign-in
+    expect(await seen()).toBeGreaterThanOrEqual(first + 61 * 1000);
+  });
+
+  test('background polling (X-Background-Refresh: 1) for 31 minutes signs a member out; real requests do not', async () => {
+    const app = makeTestApp();
+    const b = await createTestBusiness(app);
+    const poller = await signedInAgent(app, b, 'baker');
+    const worker = await signedInAgent(app, b, 'helper');
+    for (let elapsed = 0; elapsed < 31 * MIN; elapsed += 15 * 1000) {
+      app.clock.advance(15 * 1000); // the Kitchen board refetches every 15 s
+      const polled = await poller.get('/api/kitchen-board').set('X-Background-Refresh', '1');
+      if (elapsed + 15 * 1000 <= 29 * MIN && polled.status !== 200) throw new Error(`poller signed out early at ${elapsed} ms: ${polled.status}`);
+      if (elapsed % MIN === 0) expect((await worker.get('/api/kitchen-board')).status).toBe(200);
+    }
+    expect((await poller.get('/api/kitchen-board').set('X-Background-Refresh', '1')).status).toBe(401);
+    expect((await poller.get('/api/team/members')).status).toBe(401);
+    expect((await worker.get('/api/team/members')).status).toBe(200);
+  });
+
   test('activity every 5 minutes does not keep a session past 12 hours', async () => {
     const app = makeTestApp();
     const b = await createTestBusiness(app);

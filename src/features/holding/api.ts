@@ -11,11 +11,14 @@ import {
 
 export const holdingQueries = {
   all: () => ['holding'] as const,
-  /** The kitchen board, re-fetched every 15 s; the countdowns tick locally in between. */
+  /**
+   * The kitchen board, re-fetched every 15 s; the countdowns tick locally in between. Marked as background polling
+   * so a board left open does not keep a member signed in.
+   */
   board: () =>
     queryOptions({
       queryKey: [...holdingQueries.all(), 'board'],
-      queryFn: ({ signal }) => api.get('/api/kitchen-board', KitchenBoardSchema, { signal }),
+      queryFn: ({ signal }) => api.get('/api/kitchen-board', KitchenBoardSchema, { signal, headers: { 'X-Background-Refresh': '1' } }),
       refetchInterval: 15_000,
       refetchIntervalInBackground: false,
     }),
