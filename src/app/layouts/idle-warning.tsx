@@ -40,8 +40,10 @@ export function IdleWarning({ idleExpiresAt, absoluteExpiresAt }: { idleExpiresA
   useEffect(() => {
     if (!idleExpiresAt) return setDeadline(null);
     if (!windowMs.current) {
-      windowMs.current = Math.min(Math.max(Date.parse(idleExpiresAt) - Date.now(), 60_000), 12 * 60 * 60 * 1000);
-      skewMs.current = Date.now() + windowMs.current - Date.parse(idleExpiresAt);
+      const measured = Math.min(Math.max(Date.parse(idleExpiresAt) - Date.now(), 60_000), 12 * 60 * 60 * 1000);
+      skewMs.current = Date.now() + measured - Date.parse(idleExpiresAt);
+      // The server records activity at most once a minute, so a request may not have moved its limit: count a minute less.
+      windowMs.current = Math.max(measured - 60_000, 60_000);
     }
     setDeadline(Date.now() + windowMs.current);
   }, [idleExpiresAt]);
