@@ -10,6 +10,9 @@ import { BatchSections } from '@/features/batches/components/batch-sections';
 import '@/features/holding/components/batch-holding-section';
 // Fills the batch page's cleanings section.
 import '@/features/cleaning/components/batch-cleaning-section';
+// Fills the batch page's labels and sales sections.
+import '@/features/labels/components/batch-labels-section';
+import '@/features/sales/components/batch-sales-section';
 import { StateChangeDialog } from '@/features/batches/components/state-change-dialog';
 import { CorrectionForm } from '@/features/batches/components/batch-form';
 import { useSession } from '@/features/auth/api';
@@ -125,12 +128,6 @@ export function Component() {
           ))}
         </ol>
       </Card>
-      {canWrite ? (
-        <Card title="Labels">
-          <p className="mb-3 text-muted">Labels come from this batch&rsquo;s recorded data, after the label check.</p>
-          <ButtonLink to={`${paths.labels}?batchId=${batch.id}`}>Print labels for lot {batch.lotCode}</ButtonLink>
-        </Card>
-      ) : null}
       <BatchSections batch={batch} />
       {canWrite ? <StateChangeDialog key={batch.state} batch={batch} isOpen={isChanging} onClose={() => setIsChanging(false)} /> : null}
     </div>
