@@ -63,7 +63,7 @@ export function Component() {
           {search.size > 0 ? 'No batch matches these filters.' : 'Record a batch when you start a production run.'}
         </EmptyState>
       ) : (
-        <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+        <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
           <table className="w-full text-left">
             <caption className="sr-only">Batches, newest first</caption>
             <thead>
@@ -75,12 +75,12 @@ export function Component() {
               {list.data?.items.map((b) => (
                 <tr key={b.id} className="border-b border-hairline last:border-0">
                   <th scope="row" className="px-3 py-2 font-mono">
-                    <Link to={batchPath(b.id)} className="text-berry underline">{b.lotCode}</Link>
-                    {b.warningCount > 0 ? <span className="ml-2 text-sm font-normal text-honey">({b.warningCount} {b.warningCount === 1 ? 'warning' : 'warnings'})</span> : null}
+                    <Link to={batchPath(b.id)} className="whitespace-nowrap text-berry underline">{b.lotCode}</Link>
+                    {b.warningCount > 0 ? <span className="ml-2 font-sans text-sm font-normal text-honey">({b.warningCount} {b.warningCount === 1 ? 'warning' : 'warnings'})</span> : null}
                   </th>
                   <td className="px-3 py-2">{b.recipeName} <span className="text-muted">v{b.recipeVersion}</span></td>
-                  <td className="px-3 py-2">{b.madeOn}</td>
-                  <td className="px-3 py-2">{b.bestBy ?? '—'}</td>
+                  <td className="whitespace-nowrap px-3 py-2 tabular">{b.madeOn}</td>
+                  <td className="whitespace-nowrap px-3 py-2 tabular">{b.bestBy ?? '—'}</td>
                   <td className="px-3 py-2">{quantity(b)}</td>
                   <td className="px-3 py-2">{b.madeByName ?? '—'}</td>
                   <td className="px-3 py-2"><BatchStateBadge state={b.state} /></td>

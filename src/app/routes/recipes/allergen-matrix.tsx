@@ -34,7 +34,7 @@ export function Component() {
       <CautionBox title="Cross-contact in a home kitchen">
         <p>These marks show what the recipes contain. A home kitchen may have cross-contact with other allergens: ask the baker before buying for someone with an allergy.</p>
       </CautionBox>
-      <div className="mt-4 overflow-x-auto">
+      <div className="mt-4 relative overflow-x-auto">
         <table className="min-w-full border-collapse text-left" data-testid="allergen-matrix">
           <caption className="sr-only">Products and the allergens they contain</caption>
           <thead>

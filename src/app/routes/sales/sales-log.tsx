@@ -69,15 +69,15 @@ export function Component() {
           {list.isPending ? <LoadingBlock label="Loading sales…" /> : (list.data?.items.length ?? 0) === 0 ? (
             <EmptyState title="No sales here" icon="sales">{search.size > 0 ? 'No sale matches these filters.' : 'Record a sale when a released batch is sold.'}</EmptyState>
           ) : (
-            <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+            <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
               <table className="w-full text-left">
                 <caption className="sr-only">Sales, newest first; total {formatCents(list.data!.totalCents)}</caption>
                 <thead><tr className="border-b border-hairline">{['Date', 'Lot', 'Product', 'Quantity', 'Amount', 'Channel', ...(isOwner ? ['Customer'] : []), 'Recorded by', ''].map((h, i) => <th key={i} scope="col" className="px-3 py-2">{h || <span className="sr-only">Actions</span>}</th>)}</tr></thead>
                 <tbody>
                   {list.data!.items.map((s) => (
                     <tr key={s.id} className="border-b border-hairline last:border-0">
-                      <td className="px-3 py-2">{s.soldOn}</td>
-                      <th scope="row" className="px-3 py-2 font-mono">{s.lotCode}</th>
+                      <td className="whitespace-nowrap px-3 py-2 tabular">{s.soldOn}</td>
+                      <th scope="row" className="whitespace-nowrap px-3 py-2 font-mono">{s.lotCode}</th>
                       <td className="px-3 py-2">{s.productName}</td>
                       <td className="px-3 py-2 tabular">{s.quantity} {s.unit}</td>
                       <td className="px-3 py-2 tabular">{s.voided ? <><s>{formatCents(s.amountCents)}</s> <span className="text-cherry">Voided: {s.voided.reason}</span></> : formatCents(s.amountCents)}</td>

@@ -9,7 +9,7 @@ export function InspectorAllergenMatrix({ matrix }: { matrix: AllergenMatrix }) 
         Current version of every product, allergens as listed for {matrix.regime.code} rules of {matrix.regime.ruleSetDate}.
       </p>
       {matrix.products.length === 0 ? <p className="text-muted">No products for sale.</p> : (
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="min-w-full border-collapse text-left" data-testid="inspector-allergen-matrix">
             <caption className="sr-only">Products and the allergens they contain</caption>
             <thead>

@@ -28,7 +28,7 @@ function Section({ id, title, count, children }: { id: string; title: string; co
       <h2 id={id} className="text-xl font-bold">
         {title} <span className="text-base font-normal text-muted">({count})</span>
       </h2>
-      {count === 0 ? <p className="text-muted">None in this date range.</p> : <div className="overflow-x-auto">{children}</div>}
+      {count === 0 ? <p className="text-muted">None in this date range.</p> : <div className="relative overflow-x-auto">{children}</div>}
     </section>
   );
 }

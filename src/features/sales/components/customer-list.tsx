@@ -19,7 +19,7 @@ export function CustomerList() {
     <section aria-labelledby="customers-heading" className="space-y-3" data-print="hide">
       <h2 id="customers-heading" className="text-lg font-bold">Customers</h2>
       {items.length === 0 ? <EmptyState title="No customers yet" icon="empty">Customers appear here when a sale is recorded with a contact.</EmptyState> : (
-        <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+        <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
           <table className="w-full text-left">
             <caption className="sr-only">Customers, newest first</caption>
             <thead><tr className="border-b border-hairline">{['Name', 'E-mail', 'Phone', 'Recall notices', 'Sales', ''].map((h, i) => <th key={i} scope="col" className="px-3 py-2">{h || <span className="sr-only">Actions</span>}</th>)}</tr></thead>

@@ -38,7 +38,7 @@ export function TraceCustomers({ result }: { result: TraceResult }) {
   if (result.customers.length === 0) return <p>No customer was recorded for these sales.</p>;
   const withContacts = result.customers.some((c) => c.contact !== undefined);
   return (
-    <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+    <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
       <table className="w-full text-left">
         <caption className="sr-only">Customers who bought the traced batches</caption>
         <thead><tr className="border-b border-hairline">{[...(withContacts ? ['Name', 'E-mail', 'Phone'] : ['Customer']), 'Recall notices', 'Bought lots'].map((h) => <th key={h} scope="col" className="px-3 py-2">{h}</th>)}</tr></thead>
