@@ -7,6 +7,7 @@ import { ingredientQueries } from '@/features/ingredients/api';
 import { IngredientBadges } from '@/features/ingredients/components/ingredient-badges';
 import { ALLERGEN_LABELS, allergenText } from '@/features/ingredients/components/allergen-names';
 import { useSession } from '@/features/auth/api';
+import { businessLocalDate } from '@shared/domain/zoned-time';
 import { PageHeader } from '@/components/ui/page-header';
 import { DataTable, type ColumnDef } from '@/components/ui/data-table';
 import { Select } from '@/components/ui/select';
@@ -30,6 +31,7 @@ const STATUS_OPTIONS = [
 
 export function Component() {
   const session = useSession();
+  const tz = session.business?.timeZone ?? 'UTC';
   const canEdit = session.user?.role === 'owner' || session.user?.role === 'baker';
   const [allergen, setAllergen] = useState<AllergenSource | ''>('');
   const [status, setStatus] = useState<'' | 'unverified' | 'recheck' | 'tcs'>('');
@@ -39,8 +41,8 @@ export function Component() {
     { id: 'allergens', header: 'Allergens', accessorFn: (i) => i.allergens.map(allergenText).join(', ') || 'None declared' },
     { id: 'supplier', header: 'Supplier', accessorFn: (i) => [i.supplierName, i.supplierItemCode].filter(Boolean).join(' · ') },
     { id: 'status', header: 'Status', accessorFn: (i) => `${i.isVerified ? 'checked' : 'unverified'} ${i.needsLabelRecheck ? 're-check' : ''} ${i.needsTimeTemperatureControl ? 'tcs' : ''}`, cell: (c) => <IngredientBadges ingredient={c.row.original} /> },
-    { id: 'updatedAt', header: 'Last change', accessorKey: 'updatedAt', cell: (c) => new Date(c.row.original.updatedAt).toLocaleDateString() },
-  ], []);
+    { id: 'updatedAt', header: 'Last change', accessorKey: 'updatedAt', cell: (c) => <span className="whitespace-nowrap tabular">{businessLocalDate(new Date(c.row.original.updatedAt), tz)}</span> },
+  ], [tz]);
   return (
     <>
       <PageHeader

@@ -10,6 +10,7 @@ import { IngredientBadges } from '@/features/ingredients/components/ingredient-b
 import { LabelCheckForm, ReceiveLotForm } from '@/features/ingredients/components/lot-forms';
 import { allergenText } from '@/features/ingredients/components/allergen-names';
 import { useSession } from '@/features/auth/api';
+import { formatZonedDateTime } from '@shared/domain/zoned-time';
 import { isApiError } from '@/lib/api-client';
 import { PageHeader } from '@/components/ui/page-header';
 import { Button } from '@/components/ui/button';
@@ -28,7 +29,11 @@ export const loader = (qc: QueryClient) => async ({ params }: LoaderFunctionArgs
   return null;
 };
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+/** Times in the business zone with its offset, like every other record screen. */
+function useWhen() {
+  const { business } = useSession();
+  return (iso: string) => formatZonedDateTime(new Date(iso), business?.timeZone ?? 'UTC');
+}
 const CHANGE_WORDS = { create: 'Created', edit: 'Edited', verify: 'Checked against package', archive: 'Archived', restore: 'Restored' } as const;
 
 function Section({ id, title, children }: { id: string; title: string; children: React.ReactNode }) {
@@ -41,6 +46,7 @@ function Section({ id, title, children }: { id: string; title: string; children:
 }
 
 function Declared({ i }: { i: IngredientDetail }) {
+  const when = useWhen();
   return (
     <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[12rem_1fr]">
       <dt className="font-bold">Its ingredients</dt><dd>{i.subIngredients.length ? i.subIngredients.join(', ') : 'A single ingredient'}</dd>
@@ -55,6 +61,7 @@ function Declared({ i }: { i: IngredientDetail }) {
 }
 
 function LabelFiles({ i, canEdit }: { i: IngredientDetail; canEdit: boolean }) {
+  const when = useWhen();
   const upload = useUploadLabelFile(i.id);
   const input = useRef<HTMLInputElement>(null);
   const [error, setError] = useState<string>();
@@ -98,6 +105,7 @@ function LabelFiles({ i, canEdit }: { i: IngredientDetail; canEdit: boolean }) {
 }
 
 function Lots({ i, canEdit }: { i: IngredientDetail; canEdit: boolean }) {
+  const when = useWhen();
   const today = new Date().toLocaleDateString('en-CA');
   return (
     <>
@@ -128,6 +136,7 @@ function Lots({ i, canEdit }: { i: IngredientDetail; canEdit: boolean }) {
 }
 
 function Versions({ i }: { i: IngredientDetail }) {
+  const when = useWhen();
   return (
     <ol className="space-y-2">
       {i.versions.map((v) => (

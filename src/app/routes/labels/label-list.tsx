@@ -4,6 +4,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery, type QueryClient } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router';
 import { PrintLabelsInputSchema, type PrintLabelsFormInput, type PrintLabelsInput, type PrintRun } from '@shared/contracts/labels';
+import { formatZonedDateTime } from '@shared/domain/zoned-time';
 import { LABEL_TEMPLATES, getLabelTemplate, sheetLayout } from '@shared/domain/label-templates';
 import { batchQueries } from '@/features/batches/api';
 import { labelQueries, usePreviewLabels, usePrintLabels } from '@/features/labels/api';
@@ -34,8 +35,8 @@ const PAPERS = [
   { value: 'roll', label: 'Label printer (one label per page)' },
 ];
 
-const HISTORY_COLUMNS: ColumnDef<PrintRun, unknown>[] = [
-  { id: 'printedAt', header: 'Printed', accessorFn: (r) => r.printedAt, cell: ({ row }) => new Date(row.original.printedAt).toLocaleString() },
+const historyColumns = (timeZone: string): ColumnDef<PrintRun, unknown>[] => [
+  { id: 'printedAt', header: 'Printed', accessorFn: (r) => r.printedAt, cell: ({ row }) => formatZonedDateTime(new Date(row.original.printedAt), timeZone) },
   { id: 'product', header: 'Product', accessorFn: (r) => r.productName },
   { id: 'lot', header: 'Lot', accessorFn: (r) => r.lotCode },
   { id: 'size', header: 'Label size', accessorFn: (r) => r.templateName },
@@ -89,7 +90,7 @@ function CheckPanel({ batchId, templateId, confirm }: { batchId: string; templat
 }
 
 export function Component() {
-  const { user } = useSession();
+  const { user, business } = useSession();
   const [search] = useSearchParams();
   const canPrint = user?.role === 'owner' || user?.role === 'baker';
   const batches = useQuery(batchQueries.list({ state: 'released' }));
@@ -201,7 +202,7 @@ export function Component() {
       </div>
       <section aria-labelledby="history-heading" className="mt-10">
         <h2 id="history-heading" className="mb-2 text-lg font-bold">Print history</h2>
-        <DataTable caption="Label print runs, newest first" isCaptionHidden columns={HISTORY_COLUMNS} data={history.data ?? []} getRowId={(r) => r.id} emptyMessage="No labels printed yet." />
+        <DataTable caption="Label print runs, newest first" isCaptionHidden columns={historyColumns(business?.timeZone ?? 'UTC')} data={history.data ?? []} getRowId={(r) => r.id} emptyMessage="No labels printed yet." />
       </section>
     </>
   );

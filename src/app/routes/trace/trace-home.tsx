@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { businessLocalDate, formatZonedDateTime } from '@shared/domain/zoned-time';
 import { useQuery, type QueryClient } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router';
 import type { OpenRecallInput, TraceQuery } from '@shared/contracts/trace';
@@ -40,7 +41,8 @@ export function Component() {
   const [search, setSearch] = useSearchParams();
   const q = queryFrom(search);
   const recallId = search.get('recall');
-  const { user } = useSession();
+  const { user, business } = useSession();
+  const tz = business?.timeZone ?? 'UTC';
   const isOwner = user?.role === 'owner';
   const options = useQuery(traceQueries.options());
   const result = useQuery({ ...traceQueries.trace(q ?? {}), enabled: q != null });
@@ -79,7 +81,7 @@ export function Component() {
           <section aria-labelledby="trace-heading" className="space-y-4">
             <h2 id="trace-heading" className="text-xl font-bold">{data.direction === 'forward' ? 'Forward' : 'Backward'} from {data.start.label}</h2>
             <p className="text-sm text-muted">
-              Report made {new Date(data.generatedAt).toLocaleString()}. {data.batches.length} {data.batches.length === 1 ? 'batch' : 'batches'} found.{' '}
+              Report made {formatZonedDateTime(new Date(data.generatedAt), tz)}. {data.batches.length} {data.batches.length === 1 ? 'batch' : 'batches'} found.{' '}
               <a data-print="hide" className="text-berry underline" href={`/api/trace/report.pdf?${new URLSearchParams(q as Record<string, string>).toString()}`} target="_blank" rel="noreferrer">Download the report as PDF</a>
             </p>
             {data.direction === 'backward' ? (
@@ -113,7 +115,7 @@ export function Component() {
                 <li key={r.id} className="flex flex-wrap items-center gap-2">
                   <StatusBadge status={r.status === 'open' ? 'recalled' : 'signed'} label={r.status === 'open' ? 'Open' : 'Closed'} />
                   <button type="button" className="text-berry underline" onClick={() => setSearch(new URLSearchParams({ recall: r.id }))}>
-                    {new Date(r.openedAt).toLocaleDateString()}: {r.supplierLot ? `${r.supplierLot.ingredientName} lot ${r.supplierLot.lotCode}` : `${r.batches.length} batches`}
+                    {businessLocalDate(new Date(r.openedAt), tz)}: {r.supplierLot ? `${r.supplierLot.ingredientName} lot ${r.supplierLot.lotCode}` : `${r.batches.length} batches`}
                   </button>
                   <span className="text-sm text-muted">{r.progress.told} of {r.progress.customers} customers told</span>
                 </li>

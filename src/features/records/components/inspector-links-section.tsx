@@ -1,4 +1,6 @@
 import { useState } from 'react';
+import { formatZonedDateTime } from '@shared/domain/zoned-time';
+import { useSession } from '@/features/auth/api';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
@@ -9,7 +11,18 @@ import { recordsQueries, useCreateInspectorLink, useRevokeInspectorLink } from '
 const todayIso = () => new Date().toISOString().slice(0, 10);
 const input = 'block w-full rounded border border-stone-400 px-2 py-1';
 
+/** What an inspector's logged request was, in words; the stored path stays the evidence. */
+function viewLabel(path: string): string {
+  if (path === '/inspect') return 'opened the link';
+  if (path === '/api/inspector/records') return 'read the records';
+  if (path === '/api/inspector/allergen-matrix') return 'read the allergen matrix';
+  if (path.startsWith('/api/inspector/documents/')) return 'downloaded a document';
+  return path;
+}
+
 export function InspectorLinksSection() {
+  const { business } = useSession();
+  const when = (iso: string) => formatZonedDateTime(new Date(iso), business?.timeZone ?? 'UTC');
   const { data } = useQuery(recordsQueries.links());
   const create = useCreateInspectorLink();
   const revoke = useRevokeInspectorLink();
@@ -37,10 +50,10 @@ export function InspectorLinksSection() {
       <ul className="space-y-2">
         {data?.links.map((l) => (
           <li key={l.id} className="rounded border border-stone-300 p-2 text-sm">
-            <strong>{l.inspectorName}</strong> · {l.rangeFrom} to {l.rangeTo} · {l.status === 'active' ? `works until ${new Date(l.expiresAt).toLocaleString()}` : l.status}
+            <strong>{l.inspectorName}</strong> · {l.rangeFrom} to {l.rangeTo} · {l.status === 'active' ? `works until ${when(l.expiresAt)}` : l.status}
             {' '}· {l.views.length} {l.views.length === 1 ? 'view' : 'views'}
             {l.status === 'active' && <Button variant="quiet" className="ml-2" onClick={() => revoke.mutate(l.id)}>Revoke</Button>}
-            {l.views.length > 0 && <ul className="mt-1 list-disc pl-5">{l.views.slice(0, 10).map((v, i) => <li key={i}>{new Date(v.at).toLocaleString()}: {v.path} (visitor {v.visitor})</li>)}</ul>}
+            {l.views.length > 0 && <ul className="mt-1 list-disc pl-5">{l.views.slice(0, 10).map((v, i) => <li key={i}>{when(v.at)}: {viewLabel(v.path)} (visitor {v.visitor})</li>)}</ul>}
           </li>
         ))}
       </ul>

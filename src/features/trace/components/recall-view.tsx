@@ -1,4 +1,6 @@
 import { useState } from 'react';
+import { formatZonedDateTime } from '@shared/domain/zoned-time';
+import { useSession } from '@/features/auth/api';
 import type { RecallCustomerProgress, RecallDetail } from '@shared/contracts/trace';
 import { Button } from '@/components/ui/button';
 import { StatusBadge, type Status } from '@/components/ui/status-badge';
@@ -18,6 +20,8 @@ const STATUS: Record<RecallCustomerProgress['status'], { status: Status; label: 
 
 /** A recall's batches and, per customer, whether they have been told; owners mark phone calls and close it. */
 export function RecallView({ recall, isOwner }: { recall: RecallDetail; isOwner: boolean }) {
+  const { business } = useSession();
+  const when = (iso: string) => formatZonedDateTime(new Date(iso), business?.timeZone ?? 'UTC');
   const phone = useToldByPhone();
   const close = useCloseRecall();
   const toast = useToast();
@@ -26,7 +30,7 @@ export function RecallView({ recall, isOwner }: { recall: RecallDetail; isOwner:
   return (
     <section aria-labelledby="recall-heading" className="space-y-4" data-testid="recall-view">
       <div className="flex flex-wrap items-center gap-3">
-        <h2 id="recall-heading" className="text-xl font-bold">Recall opened {new Date(recall.openedAt).toLocaleString()}</h2>
+        <h2 id="recall-heading" className="text-xl font-bold">Recall opened {when(recall.openedAt)}</h2>
         <StatusBadge status={recall.status === 'open' ? 'recalled' : 'signed'} label={recall.status === 'open' ? 'Open' : 'Closed'} />
       </div>
       <p><strong>Reason:</strong> {recall.reason}</p>
@@ -43,7 +47,7 @@ export function RecallView({ recall, isOwner }: { recall: RecallDetail; isOwner:
       </ul>
       <h3 className="font-bold">Customers</h3>
       {recall.customers.length === 0 ? <p>No customer was recorded for these batches.</p> : (
-        <div className="overflow-x-auto rounded-card border border-hairline bg-surface">
+        <div className="relative overflow-x-auto rounded-card border border-hairline bg-surface">
           <table className="w-full text-left">
             <caption className="sr-only">Who has been told</caption>
             <thead><tr className="border-b border-hairline">{[isOwner ? 'Name' : 'Customer', ...(isOwner ? ['E-mail', 'Phone'] : []), 'Lots', 'Status', 'Told', ''].map((h, i) => <th key={i} scope="col" className="px-3 py-2">{h || <span className="sr-only">Actions</span>}</th>)}</tr></thead>
@@ -54,7 +58,7 @@ export function RecallView({ recall, isOwner }: { recall: RecallDetail; isOwner:
                   {isOwner ? <><td className="px-3 py-2">{c.contact?.email ?? '—'}</td><td className="px-3 py-2">{c.contact?.phone ?? '—'}</td></> : null}
                   <td className="px-3 py-2 font-mono">{c.batchIds.map(lot).join(', ')}</td>
                   <td className="px-3 py-2"><StatusBadge status={STATUS[c.status].status} label={STATUS[c.status].label} /></td>
-                  <td className="px-3 py-2">{c.toldAt ? `${new Date(c.toldAt).toLocaleString()}${c.toldByName ? ` by ${c.toldByName}` : ''}${c.note ? ` — ${c.note}` : ''}` : '—'}</td>
+                  <td className="px-3 py-2">{c.toldAt ? `${when(c.toldAt)}${c.toldByName ? ` by ${c.toldByName}` : ''}${c.note ? ` — ${c.note}` : ''}` : '—'}</td>
                   <td className="px-3 py-2" data-print="hide">
                     {isOwner && c.status !== 'told_by_phone' && c.contact ? (
                       <Button variant="secondary" isBusy={phone.isPending} onClick={() => phone.mutateAsync({ id: recall.id, customerId: c.customerId, note: '' }).then(() => toast.showToast('Marked as told by phone.'))}>
@@ -73,7 +77,7 @@ export function RecallView({ recall, isOwner }: { recall: RecallDetail; isOwner:
           <Textarea label="Close the recall: how did it end?" value={note} onChange={(e) => setNote(e.target.value)} hint="e.g. “All bags returned or thrown away; supplier confirmed.”" />
           <Button type="submit" variant="secondary" disabled={note.trim().length < 3} isBusy={close.isPending}>Close recall</Button>
         </form>
-      ) : recall.closedAt ? <p>Closed {new Date(recall.closedAt).toLocaleString()} by {recall.closedByName}: {recall.closeNote}</p> : null}
+      ) : recall.closedAt ? <p>Closed {when(recall.closedAt)} by {recall.closedByName}: {recall.closeNote}</p> : null}
     </section>
   );
 }
