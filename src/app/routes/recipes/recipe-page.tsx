@@ -58,13 +58,13 @@ export function Component() {
         <section aria-labelledby="components-h" className="space-y-4">
           <h2 id="components-h" className="text-lg font-bold">Components</h2>
           <table className="w-full text-left">
-            <thead><tr><th scope="col">Ingredient or recipe</th><th scope="col" className="text-right">As entered</th><th scope="col" className="text-right">Grams (exact)</th></tr></thead>
+            <thead><tr><th scope="col">Ingredient or recipe</th><th scope="col" className="text-right">As entered</th><th scope="col" className="text-right">Grams</th></tr></thead>
             <tbody>
               {current.components.map((c, i) => (
                 <tr key={i} className="border-t border-hairline">
                   <th scope="row" className="py-1 font-normal">{c.kind === 'recipe' ? <Link className="text-berry underline" to={`${paths.recipes}/${c.recipeId}`}>{c.name}</Link> : c.name}{c.kind === 'recipe' ? ' (recipe)' : ''}</th>
                   <td className="py-1 text-right tabular-nums">{c.entered.amount} {c.entered.unit}</td>
-                  <td className="py-1 text-right tabular-nums">{c.grams}</td>
+                  <td className="py-1 text-right tabular-nums" title={`${c.grams} g exactly`}>{Math.round(Number(c.grams) * 10) / 10}</td>
                 </tr>
               ))}
             </tbody>
