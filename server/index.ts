@@ -9,6 +9,7 @@ import { startMailCapture, type MailCapture } from './features/mail/mail-capture
 import { createMailTransport, runMailOnce } from './features/mail/mail.service';
 import { startBackgroundJobs } from './features/mail/background-jobs';
 import { runReminderScan } from './features/documents/documents.service';
+import { runHoldingAlertScan } from './features/holding/holding-alerts';
 
 const env = readEnv();
 const logger = createLogger(env.LOG_LEVEL);
@@ -61,6 +62,7 @@ const backgroundJobs = startBackgroundJobs(
   [
     // Reminders first, so the ones queued this round go out in the same round.
     { name: 'document-reminders', run: () => runReminderScan({ db, now, publicBaseUrl: env.PUBLIC_BASE_URL }) },
+    { name: 'holding-alerts', run: () => runHoldingAlertScan({ db, now }) },
     { name: 'mail', run: () => runMailOnce({ db, now, transport: mailTransport, from: env.MAIL_FROM, logger }) },
   ],
   { intervalMs: 15_000, logger },

@@ -7,6 +7,7 @@ import { batches } from '../../server/db/schema/batches';
 import { recordEvents } from '../../server/db/schema/record-events';
 import { mailOutbox } from '../../server/db/schema/mail';
 import { startHoldingPeriod } from '../../server/features/holding/holding.service';
+import { runHoldingAlertScan } from '../../server/features/holding/holding-alerts';
 import { hasUnresolvedHoldingViolation } from '../../server/features/holding/holding.queries';
 import type { Actor } from '../../server/lib/actor';
 import type { StartHoldingInput } from '../../shared/contracts/holding';
@@ -207,6 +208,19 @@ describe('holding periods', () => {
     expect(mail).toHaveLength(1);
     expect(mail[0]).toMatchObject({ toAddress: business.members.owner.email, kind: 'holding_alert' });
     expect(mail[0]!.textBody).toMatch(/Discard the food/);
+  });
+
+  test('a limit passed while nobody looks is noticed by the background scan and mailed to the owner once', async () => {
+    const { business } = await businessWithAgents(t);
+    const batch = await newBatch(business.businessId);
+    // A custom 30-minute limit started 25 minutes ago: within its limit at start, so nothing is noticed yet.
+    const p = await startedAgo(business, { batchId: batch.id, kind: 'setting', policy: 'custom', customLimitMinutes: 30 }, 25 * MIN);
+    const outbox = () => t.db.select().from(mailOutbox).where(eq(mailOutbox.dedupeKey, `holding-violation:${p.id}:${business.members.owner.userId}`));
+    expect(await outbox()).toHaveLength(0);
+    const later = () => new Date(Date.now() + 10 * MIN);
+    expect(await runHoldingAlertScan({ db: t.db, now: later })).toBeGreaterThanOrEqual(1);
+    await runHoldingAlertScan({ db: t.db, now: later });
+    expect(await outbox()).toHaveLength(1);
   });
 
   test('a failed first cooling stage may be reheated; then the batch can be released (3-501.14(A)(1))', async () => {

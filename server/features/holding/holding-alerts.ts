@@ -1,4 +1,6 @@
-import { and, eq } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
+import { holdingPeriods, holdingStops } from '../../db/schema/holding';
+import { loadHoldingPeriods } from './holding.queries';
 import type { Db, DbOrTx } from '../../db/client';
 import { memberships, users } from '../../db/schema/auth';
 import { queueMail } from '../mail/mail.service';
@@ -85,4 +87,24 @@ export async function noticeHoldingViolations(db: Db, businessId: string, period
     }
   }
   return sent;
+}
+
+/**
+ * Background check (every few seconds, from server/index.ts): notices limits passed while nobody has the
+ * Kitchen board open, so the owner's e-mail does not wait for someone to look. Safe with several
+ * processes: each period is noticed once (unique idempotency key).
+ */
+export async function runHoldingAlertScan({ db, now }: { db: Db; now: () => Date }): Promise<number> {
+  const running = await db
+    .selectDistinct({ businessId: holdingPeriods.businessId })
+    .from(holdingPeriods)
+    .leftJoin(holdingStops, eq(holdingStops.periodId, holdingPeriods.id))
+    .where(isNull(holdingStops.id));
+  let noticed = 0;
+  for (const { businessId } of running) {
+    const at = now();
+    const periods = await loadHoldingPeriods(db, businessId, { runningOnly: true }, at);
+    noticed += await noticeHoldingViolations(db, businessId, periods, at);
+  }
+  return noticed;
 }
