@@ -147,6 +147,8 @@ export function createApp(input: CreateAppInput) {
           'object-src': ["'none'"],
           'frame-ancestors': ["'none'"],
           'img-src': ["'self'", 'data:', 'blob:'],
+          // The label preview shows the generated PDF from a blob: URL in a frame.
+          'frame-src': ["'self'", 'blob:'],
           'form-action': ["'self'"],
           // Plain-http loopback (demo, tests) would break if every request were upgraded to https.
           'upgrade-insecure-requests': isHttps ? [] : null,

@@ -139,8 +139,8 @@ export function Component() {
       <PageHeader title="Labels" description="Print labels for a batch from its recorded data, after the label check." />
       <div className="mb-6">
         <CautionBox title="Rules differ by place">
-          <p>Labelling rules differ by state, county and country, and they change. Check with your local health authority before you sell.</p>
-          {check.data?.caution && <p>{check.data.caution}</p>}
+          {/* The rule profile's own caution, once a batch is chosen, replaces the general one (they say the same). */}
+          <p>{check.data?.caution || 'Labelling rules differ by state, county and country, and they change. Check with your local health authority before you sell.'}</p>
         </CautionBox>
       </div>
       <div className="grid gap-8 lg:grid-cols-2">
@@ -186,7 +186,7 @@ export function Component() {
           <FormError message={formError} />
           {done && <p role="status" className="font-bold text-pistachio">{done}</p>}
           <div className="flex flex-wrap gap-3">
-            <Button variant="secondary" onClick={onPreview} isBusy={preview.isPending}>Preview</Button>
+            <Button variant="secondary" onClick={onPreview} isBusy={preview.isPending} disabled={check.data ? !check.data.ok : false}>Preview</Button>
             <Button type="submit" isBusy={printer.isPending} disabled={check.data ? !check.data.ok : false}>Print labels (download PDF)</Button>
           </div>
         </form>
