@@ -124,7 +124,7 @@ export function AppLayout() {
               <section role="alert" className="rounded-card border border-edge bg-surface p-6">
                 <h1 className="text-2xl font-bold">Not available for your role</h1>
                 <p className="mt-2">
-                  {current.label} is for {current.roles.map((r) => ROLE_LABELS[r].toLowerCase()).join(' and ')}s. Ask the business owner if you need it.
+                  {current.label} is for {current.roles.map((r) => `${ROLE_LABELS[r].toLowerCase()}s`).join(' and ')}. Ask the business owner if you need it.
                 </p>
               </section>
             )}
