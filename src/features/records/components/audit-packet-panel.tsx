@@ -61,8 +61,8 @@ export function AuditPacketPanel() {
         and a manifest with a SHA-256 fingerprint of every file. Customer contact details are never included.
       </p>
       <form onSubmit={form.handleSubmit((v) => download.mutate(v))} className="grid gap-3 sm:grid-cols-3 sm:items-end" noValidate>
-        <Field label="Records from" type="date" hint="YYYY-MM-DD" {...form.register('from')} error={errors.from?.message} />
-        <Field label="Records to" type="date" hint="Both days included" {...form.register('to')} error={errors.to?.message} />
+        <Field label="Records from" type="date" hint="First day included" {...form.register('from')} error={errors.from?.message} />
+        <Field label="Records to" type="date" hint="Last day included" {...form.register('to')} error={errors.to?.message} />
         <div className="flex gap-2">
           <Button type="submit" isBusy={download.isPending}>Download packet</Button>
           {download.isPending && <Button variant="quiet" onClick={() => abort.current?.abort()}>Cancel</Button>}
