@@ -116,7 +116,8 @@ export function labelBlocks(input: Pick<LabelCheckInput, 'productName' | 'labelT
   return { blocks, bottomBlock };
 }
 
-const ELEMENT_NAMES: Record<LabelElementKey, string> = {
+/** Each required label element in words, for messages and the rule-profile screen. */
+export const ELEMENT_NAMES: Record<LabelElementKey, string> = {
   productName: 'the product name', ingredients: 'the ingredient list', allergens: 'the allergen statement', netQuantity: 'the net quantity',
   businessNameAddress: 'the business name and address', businessNameRegistration: 'the business name with its address or registration number',
   registrationNumber: 'the registration number', homeKitchenStatement: 'the home-kitchen statement', madeOnDate: 'the made-on date',

@@ -1,7 +1,9 @@
 import { useState } from 'react';
 import { useQuery, type QueryClient } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router';
-import type { RuleProfile, RuleSource } from '@shared/contracts/rule-profiles';
+import type { LabelElementKey, RuleProfile, RuleSource } from '@shared/contracts/rule-profiles';
+import { ELEMENT_NAMES } from '@shared/domain/label-check';
+import { holdingPolicyName } from '@shared/domain/holding-rules';
 import { ruleProfileQueries } from '@/features/recipes/api';
 import { useCopyRuleProfile, useSaveRuleProfileVersion } from '@/features/settings/api';
 import { useSession } from '@/features/auth/api';
@@ -13,6 +15,12 @@ import { LoadingBlock } from '@/components/ui/spinner';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { useToast } from '@/components/ui/toast';
 import { isApiError } from '@/lib/api-client';
+
+/** "the product name" → "Product name", for a list. */
+const elementName = (key: LabelElementKey) => {
+  const words = ELEMENT_NAMES[key].replace(/^the /, '');
+  return words.charAt(0).toUpperCase() + words.slice(1);
+};
 
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
 
@@ -45,11 +53,11 @@ function ProfileValues({ p }: { p: RuleProfile }) {
       {row('Annual sales cap', p.salesCap.value ? `${p.salesCap.value.amount.toLocaleString('en-US')} ${p.salesCap.value.currency}${p.salesCap.value.year ? ` (${p.salesCap.value.year})` : ''}` : 'None', p.salesCap.source)}
       {row('Sales channels', p.salesChannels.value.join(', '), p.salesChannels.source)}
       {row('Foods needing time/temperature control', p.allowsTcsFoods.value ? 'Allowed' : 'Not allowed', p.allowsTcsFoods.source)}
-      {row('Holding policy', p.holdingPolicy.value.kind + (p.holdingPolicy.value.customLimitMinutes ? ` (${p.holdingPolicy.value.customLimitMinutes} min)` : ''), p.holdingPolicy.source)}
+      {row('Holding policy', holdingPolicyName(p.holdingPolicy.value.kind, p.holdingPolicy.value.customLimitMinutes), p.holdingPolicy.source)}
       {row('Sanitisers', `${p.sanitisers.value.length} rule(s)`, p.sanitisers.source)}
       <div className="border-t border-hairline py-2">
         <dt className="font-bold">Required on the label</dt>
-        <dd><ul className="list-disc pl-5">{[...p.requiredLabelElements, ...p.tcsRequiredLabelElements.map((e) => ({ ...e, key: `${e.key} (TCS foods)` }))].map((e) => <li key={e.key}>{e.key}<Source source={e.source} /></li>)}</ul></dd>
+        <dd><ul className="list-disc pl-5">{[...p.requiredLabelElements.map((e) => ({ ...e, id: e.key, name: elementName(e.key) })), ...p.tcsRequiredLabelElements.map((e) => ({ ...e, id: `${e.key}-tcs`, name: `${elementName(e.key)} (TCS foods)` }))].map((e) => <li key={e.id}>{e.name}<Source source={e.source} /></li>)}</ul></dd>
       </div>
     </dl>
   );
