@@ -200,9 +200,10 @@ export function RecipeEditorForm({ current, businessProfileId, onSave }: {
 
 function WeightPair({ label, hint, amount, unit, error }: { label: string; hint?: string; amount: ReturnType<ReturnType<typeof useForm<RecipeFormValues>>['register']>; unit: ReturnType<ReturnType<typeof useForm<RecipeFormValues>>['register']>; error?: string }) {
   return (
-    <div className="flex gap-2">
-      <Field label={label} hint={hint} isOptional inputMode="decimal" className="flex-1" {...amount} error={error} />
-      <Select label={`${label}: unit`} options={UNIT_OPTIONS} {...unit} />
+    <div className="flex items-end gap-2">
+      <Field label={label} hint={hint} isOptional inputMode="decimal" className="min-w-0 flex-1" {...amount} error={error} />
+      {/* The unit's label is read out but not shown: the amount's label above says what it is. */}
+      <Select label={`${label}: unit`} className="w-24 shrink-0 [&_label]:sr-only" options={UNIT_OPTIONS} {...unit} />
     </div>
   );
 }
