@@ -10,9 +10,9 @@ import { inspectorDocumentUrl } from '../api';
 // Food Code 2022 sections as the holding feature cites them.
 const POLICY_WORDS: Record<string, string> = {
   none: 'No limit (timer only)',
-  custom: 'Written procedure limit',
-  tphc_4h: 'Time as a control, 4 hours (FDA Food Code 2022 3-501.19(B))',
-  tphc_6h: 'Time as a control, 6 hours, cold food (FDA Food Code 2022 3-501.19(C))',
+  custom: 'Own quality limit (not a food-safety limit)',
+  tphc_4h: 'Time as a public health control, 4 hours (FDA Food Code 2022 3-501.19(B))',
+  tphc_6h: 'Time as a public health control, 6 hours, cold food (FDA Food Code 2022 3-501.19(C))',
   cooling: 'Cooling (FDA Food Code 2022 3-501.14)',
 };
 const KIND_WORDS: Record<string, string> = { resting: 'Resting', cooling: 'Cooling', setting: 'Setting', display: 'On display', custom: 'Other' };
