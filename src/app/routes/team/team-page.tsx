@@ -5,7 +5,7 @@ import { useQuery, type QueryClient } from '@tanstack/react-query';
 import { ROLES, type Role } from '@shared/contracts/auth';
 import { CreateInviteInputSchema, type CreatedInvite, type CreateInviteInput, type Invite, type Member } from '@shared/contracts/team';
 import { teamQueries, useChangeMemberRole, useCreateInvite, useRevokeInvite, useSetMemberActive } from '@/features/team/api';
-import { useSession } from '@/features/auth/api';
+import { sessionQueries, useSession } from '@/features/auth/api';
 import { applyServerErrors } from '@/lib/form-errors';
 import { clearDraft, useFormDraft } from '@/lib/form-drafts';
 import { isApiError } from '@/lib/api-client';
@@ -22,6 +22,9 @@ import { ROLE_LABELS } from '../../nav';
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
 
 export const loader = (qc: QueryClient) => async () => {
+  // Others see "not available for your role"; asking for the invites would only answer 403.
+  const session = await qc.ensureQueryData(sessionQueries.current());
+  if (session.user?.role !== 'owner') return null;
   await Promise.all([qc.ensureQueryData(teamQueries.members()), qc.ensureQueryData(teamQueries.invites())]);
   return null;
 };
