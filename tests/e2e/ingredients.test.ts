@@ -40,7 +40,7 @@ describe('ingredients in the browser', () => {
     expect(describeViolations(await checkA11y(page))).toEqual([]);
     await page.getByRole('button', { name: 'Save ingredient' }).click();
     await page.getByRole('heading', { name: 'Blanched almond flour', level: 1 }).waitFor();
-    await expect(page.getByText('Tree nuts: almond (confirmed against the package)').isVisible()).resolves.toBe(true);
+    await expect(page.getByText('Tree nuts: almond (marked as read off the package when entered)').isVisible()).resolves.toBe(true);
 
     await page.getByLabel('Add a label photo or PDF').setInputFiles(photo);
     const img = page.getByRole('img', { name: /Label photo almond-flour-label/ });

@@ -50,7 +50,7 @@ function Declared({ i }: { i: IngredientDetail }) {
   return (
     <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[12rem_1fr]">
       <dt className="font-bold">Its ingredients</dt><dd>{i.subIngredients.length ? i.subIngredients.join(', ') : 'A single ingredient'}</dd>
-      <dt className="font-bold">Allergens</dt><dd>{i.allergens.length ? i.allergens.map(allergenText).join(', ') : 'None declared'} {i.allergensConfirmed ? '(confirmed against the package)' : '(not yet confirmed against the package)'}</dd>
+      <dt className="font-bold">Allergens</dt><dd>{i.allergens.length ? i.allergens.map(allergenText).join(', ') : 'None declared'} {i.allergensConfirmed ? '(marked as read off the package when entered)' : '(not yet marked as read off the package)'}</dd>
       <dt className="font-bold">Sulphites</dt><dd>{i.sulphitesMgPerKg === null ? 'Not stated' : `${i.sulphitesMgPerKg} mg/kg`}</dd>
       <dt className="font-bold">Time/temperature control</dt><dd>{i.needsTimeTemperatureControl ? 'Needed (TCS)' : 'Not needed'}</dd>
       <dt className="font-bold">Supplier</dt><dd>{[i.supplierName, i.supplierItemCode && `item ${i.supplierItemCode}`].filter(Boolean).join(', ') || 'Not recorded'}</dd>
