@@ -25,17 +25,21 @@ export function DocumentsSection() {
   return (
     <section aria-labelledby="documents" className="space-y-3">
       <h2 id="documents" className="text-lg font-bold">Documents</h2>
+      {data && data.documents.length === 0 ? <p className="text-muted">No documents yet. Upload your permit or registration and training certificates so their expiry dates are watched.</p> : null}
       <ul className="space-y-1">
         {data?.documents.map((d) => (
           <li key={d.id} className="flex flex-wrap items-center gap-2 text-sm">
-            <a className="underline" href={`/api/documents/${d.id}/versions/${d.current.id}/download`}>{d.current.title}</a>
-            <span>({DOCUMENT_KIND_LABELS[d.kind]}{d.holder ? `, ${d.holder.displayName}` : ''})</span>
+            <a className="text-berry underline" href={`/api/documents/${d.id}/versions/${d.current.id}/download`}>{d.current.title}</a>
+            {/* Demo and typical titles already name the kind and holder; say them only when they add something. */}
+            {d.current.title.toLowerCase().startsWith(DOCUMENT_KIND_LABELS[d.kind].toLowerCase()) ? null : <span>({DOCUMENT_KIND_LABELS[d.kind]}{d.holder ? `, ${d.holder.displayName}` : ''})</span>}
             {d.expiryStatus === 'expired' && <StatusBadge status="over-limit" label="Expired" />}
             {d.expiryStatus === 'expiring_soon' && <StatusBadge status="due-soon" label={`Expires in ${d.daysLeft} days`} />}
             {d.expiryStatus === 'valid' && <StatusBadge status="within-limit" label={`Valid to ${d.current.expiresOn}`} />}
+            {d.expiryStatus === 'no_expiry' && <span className="text-muted">issued {d.current.issuedOn}, no expiry</span>}
           </li>
         ))}
       </ul>
+      <h3 className="pt-2 font-bold">Add a document</h3>
       <form onSubmit={onSubmit} className="grid gap-2 sm:grid-cols-2">
         <label>Kind<select name="kind" className={input} defaultValue="registration">{DOCUMENT_KINDS.map((k) => <option key={k} value={k}>{DOCUMENT_KIND_LABELS[k]}</option>)}</select></label>
         <label>Title<input name="title" required className={input} /></label>
