@@ -118,6 +118,22 @@ function page(title: string, body: string): string {
 
 const CROSS_CONTACT = 'Made in a home kitchen that may also handle other allergens: ask the baker.';
 
+/**
+ * An ingredient whose own sub-ingredients changed shows up as removed and added under the same name;
+ * a customer reads that better as one change ("changed to Sprinkles (…)").
+ */
+function pairChanges(added: readonly string[], removed: readonly string[]): { changed: string[]; added: string[]; removed: string[] } {
+  const name = (x: string) => x.split(' (')[0]!.trim().toLowerCase();
+  const left = [...removed];
+  const changed: string[] = [];
+  const onlyAdded: string[] = [];
+  for (const a of added) {
+    const i = left.findIndex((r) => name(r) === name(a));
+    if (i >= 0) { changed.push(a); left.splice(i, 1); } else onlyAdded.push(a);
+  }
+  return { changed, added: onlyAdded, removed: left };
+}
+
 /** The lot page HTML: recall or correction notice first, then the allergen line, ingredients, dates and contact. */
 export function renderLotPage(v: LotPageView): string {
   const parts: string[] = [];
@@ -130,8 +146,13 @@ export function renderLotPage(v: LotPageView): string {
   }
   if (v.corrections.length) {
     const items = v.corrections.map((c) => {
-      const detail = c.added.length || c.removed.length
-        ? [c.added.length ? `added ${c.added.map(esc).join(', ')}` : '', c.removed.length ? `removed ${c.removed.map(esc).join(', ')}` : ''].filter(Boolean).join('; ')
+      const { changed, added, removed } = pairChanges(c.added, c.removed);
+      const detail = changed.length || added.length || removed.length
+        ? [
+            ...changed.map((x) => `changed to ${esc(x)}`),
+            added.length ? `added ${added.map(esc).join(', ')}` : '',
+            removed.length ? `removed ${removed.map(esc).join(', ')}` : '',
+          ].filter(Boolean).join('; ')
         : `now: ${esc(c.after)}`;
       return `<li>${esc(c.label)}: ${detail}</li>`;
     });
