@@ -1,9 +1,10 @@
+import { onceForIdempotencyKey } from '../records/idempotent-write';
 import { createHash } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../../db/client';
 import type { Actor } from '../../lib/actor';
 import { HttpError, badRequest, conflict, notFound } from '../../lib/http-error';
-import { appendRecordEvent, findByIdempotencyKey } from '../records/record-events.service';
+import { appendRecordEvent } from '../records/record-events.service';
 import { holdingActions, holdingPeriods, holdingReadings, holdingStops, writtenProcedures } from '../../db/schema/holding';
 import { evaluateHolding, type HoldingPolicy } from '../../../shared/domain/holding-policies';
 import {
@@ -44,33 +45,9 @@ function requestHash(operation: string, body: unknown): string {
   return createHash('sha256').update(JSON.stringify([operation, body ?? null])).digest('hex');
 }
 
-/**
- * Runs `write` once per Idempotency-Key: a retry with the same key and body answers the original
- * period; the same key with a different body is refused (422).
- */
-async function onceForKey(db: Db, actor: Actor, key: string | undefined, hash: string, write: () => Promise<string>): Promise<string> {
-  const replay = async () => {
-    const earlier = key ? await findByIdempotencyKey(db, actor.businessId, key) : undefined;
-    if (!earlier) return undefined;
-    if ((earlier.payload as { requestHash?: string } | null)?.requestHash !== hash || earlier.entityType !== ENTITY) {
-      throw new HttpError(422, 'conflict', 'This Idempotency-Key was already used for a different request. Send a new key for a new action.');
-    }
-    return earlier.entityId;
-  };
-  const earlier = await replay();
-  if (earlier) return earlier;
-  try {
-    return await write();
-  } catch (err) {
-    // Two copies of one tap racing: the loser's insert hits the unique key; answer the winner's result.
-    const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
-    if (key && code === '23505') {
-      const winner = await replay();
-      if (winner) return winner;
-    }
-    throw err;
-  }
-}
+/** Runs `write` once per Idempotency-Key (see onceForIdempotencyKey). */
+const onceForKey = (db: Db, actor: Actor, key: string | undefined, hash: string, write: () => Promise<string>) =>
+  onceForIdempotencyKey(db, actor.businessId, key, ENTITY, hash, write);
 
 async function onePeriod(db: DbOrTx, businessId: string, id: string, now: Date): Promise<HoldingPeriod> {
   const [p] = await loadHoldingPeriods(db, businessId, { periodIds: [id] }, now);
