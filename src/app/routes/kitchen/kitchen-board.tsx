@@ -5,6 +5,7 @@ import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { Spinner } from '@/components/ui/spinner';
 import { Icon } from '@/components/ui/icon';
+import { StatusBadge } from '@/components/ui/status-badge';
 import { holdingQueries } from '@/features/holding/api';
 import { useServerClock } from '@/features/holding/components/countdown';
 import { HoldingCaution } from '@/features/holding/components/holding-caution';
@@ -72,7 +73,11 @@ function BoardSection({ section, now }: { section: KitchenBoardSection; now: num
           <h2 id="cleanings-heading" className="text-2xl font-bold">Cleaning due</h2>
           <ul className="space-y-2">
             {section.items.map((c) => (
-              <li key={c.id} className={c.isOverdue ? 'font-bold text-cherry' : ''}>{c.title} — {c.isOverdue ? 'overdue since' : 'due'} <span className="tabular">{c.dueAtLocal}</span></li>
+              <li key={c.id} className={`flex flex-wrap items-center gap-2 ${c.isOverdue ? 'font-bold text-cherry' : ''}`}>
+                {/* Word + icon + colour, as on the Cleaning screen. */}
+                <StatusBadge status={c.isOverdue ? 'over-limit' : 'due-soon'} label={c.isOverdue ? 'Overdue' : 'Due'} />
+                <span>{c.title} — {c.isOverdue ? 'overdue since' : 'due'} <span className="tabular">{c.dueAtLocal}</span></span>
+              </li>
             ))}
           </ul>
         </section>
