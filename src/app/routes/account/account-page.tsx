@@ -24,6 +24,13 @@ export const loader = (qc: QueryClient) => async () => {
   return null;
 };
 
+/** "Chrome on Linux" from a user-agent string; the raw string means little to people. */
+function browserName(ua: string): string {
+  const browser = /Edg\//.test(ua) ? 'Edge' : /Firefox\//.test(ua) ? 'Firefox' : /Chrome\//.test(ua) ? 'Chrome' : /Safari\//.test(ua) ? 'Safari' : null;
+  const os = /iPhone|iPad/.test(ua) ? 'iPhone or iPad' : /Android/.test(ua) ? 'Android' : /Windows/.test(ua) ? 'Windows' : /Mac OS X/.test(ua) ? 'Mac' : /Linux/.test(ua) ? 'Linux' : null;
+  return browser && os ? `${browser} on ${os}` : browser ?? os ?? ua;
+}
+
 const dateTime = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
 
 function Card({ id, title, children }: { id: string; title: string; children: React.ReactNode }) {
@@ -110,7 +117,7 @@ function SessionsTable() {
   const { showToast } = useToast();
   const columns = useMemo<ColumnDef<SessionSummary, unknown>[]>(
     () => [
-      { id: 'userAgent', header: 'Browser or device', accessorFn: (s) => (s.isCurrent ? `This browser${s.userAgent ? ` (${s.userAgent})` : ''}` : (s.userAgent ?? 'Unknown browser')) },
+      { id: 'userAgent', header: 'Browser or device', accessorFn: (s) => (s.isCurrent ? `This browser${s.userAgent ? ` (${browserName(s.userAgent)})` : ''}` : (s.userAgent ? browserName(s.userAgent) : 'Unknown browser')) },
       { id: 'createdAt', header: 'Signed in', accessorKey: 'createdAt', cell: (c) => <span className="tabular">{dateTime(c.row.original.createdAt)}</span> },
       { id: 'lastSeenAt', header: 'Last active', accessorKey: 'lastSeenAt', cell: (c) => <span className="tabular">{dateTime(c.row.original.lastSeenAt)}</span> },
       {
@@ -121,7 +128,7 @@ function SessionsTable() {
           c.row.original.isCurrent ? (
             <span className="text-muted">Current session</span>
           ) : (
-            <Button variant="secondary" isBusy={end.isPending && end.variables === c.row.original.id} onClick={() => end.mutate(c.row.original.id, { onSuccess: () => showToast('That session has ended.') })}>
+            <Button variant="secondary" className="whitespace-nowrap" isBusy={end.isPending && end.variables === c.row.original.id} onClick={() => end.mutate(c.row.original.id, { onSuccess: () => showToast('That session has ended.') })}>
               End session
             </Button>
           ),
