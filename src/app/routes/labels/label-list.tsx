@@ -103,7 +103,7 @@ export function Component() {
   const form = useForm<PrintLabelsFormInput, unknown, PrintLabelsInput>({
     resolver: zodResolver(PrintLabelsInputSchema),
     defaultValues: {
-      batchId: search.get('batchId') ?? '', templateId: 'square-2in', count: 12, includeProofPage: false, confirmNeedsReview: false,
+      batchId: search.get('batchId') ?? '', templateId: 'rect-3x2in', count: 12, includeProofPage: false, confirmNeedsReview: false,
       sheet: { paper: 'letter', marginTopMm: 12.7, marginLeftMm: 12.7, marginRightMm: 12.7, marginBottomMm: 12.7, gutterXMm: 3, gutterYMm: 3 },
     },
   });
