@@ -160,7 +160,7 @@ export function RecipeEditorForm({ current, businessProfileId, onSave }: {
                     {e.components?.[i]?.refId ? <p className="text-sm font-bold text-cherry">{e.components[i]?.refId?.message}</p> : null}
                   </th>
                   <td className="py-2 pr-2"><Field label={`Weight of ${f.name}`} hint="" className="[&_label]:sr-only" inputMode="decimal" {...register(`components.${i}.amount`)} error={e.components?.[i]?.amount?.message} /></td>
-                  <td className="min-w-20 py-2 pr-2"><Select label={`Unit for ${f.name}`} className="[&_label]:sr-only" options={UNIT_OPTIONS} {...register(`components.${i}.unit`)} error={e.components?.[i]?.unit?.message} /></td>
+                  <td className="min-w-24 py-2 pr-2"><Select label={`Unit for ${f.name}`} className="[&_label]:sr-only" options={UNIT_OPTIONS} {...register(`components.${i}.unit`)} error={e.components?.[i]?.unit?.message} /></td>
                   <td className="py-2"><Button variant="quiet" onClick={() => components.remove(i)} aria-label={`Remove ${f.name}`}>Remove</Button></td>
                 </tr>
               ))}
