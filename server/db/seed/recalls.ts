@@ -38,9 +38,9 @@ export const recallsSeedStep: SeedStep = {
     if (!sub) return;
     const [pA, pB] = usersOf(sub.recipeId);
     const names = await currentIngredients(db, businessId);
-    // A non-dairy ingredient of the binder: the story is undeclared milk.
+    // An ingredient of the binder without peanut: the story is undeclared peanut (the pops declare no peanut).
     const ingredientIds = sub.components.flatMap((c) => (c.kind === 'ingredient' ? [c.ingredientId] : []));
-    const ingredientId = ingredientIds.find((id) => !/butter|milk|cream/i.test(names.get(id)?.labelName ?? '')) ?? ingredientIds[0]!;
+    const ingredientId = ingredientIds.find((id) => !/peanut/i.test(names.get(id)?.labelName ?? '')) ?? ingredientIds[0]!;
     const ingredientName = (names.get(ingredientId)?.labelName ?? 'ingredient').toLowerCase();
     const lot = await createSupplierLot(db, actors.baker, ingredientId, {
       lotCode: 'PS-2611-R', receivedOn: addCalendarDays(today, -8), bestBy: addCalendarDays(today, 300), quantity: '1 bag', notes: '',
@@ -75,8 +75,8 @@ export const recallsSeedStep: SeedStep = {
     await sell(second ?? first, undefined, 24, 'direct');
 
     const recall = await openRecall(db, actors.owner, {
-      reason: `Cedar Row Baking Supply (invented) recalled ${ingredientName} lot ${lot.lotCode}: a packing-line mix-up means it may contain milk that is not on its label.`,
-      publicNotice: `We are recalling these cake pops: the ${ingredientName} in them may contain milk that is not declared on the label. If you or anyone you share them with is allergic to milk, do not eat them. Bring them back for a full refund, or throw them away.`,
+      reason: `Cedar Row Baking Supply (invented) recalled ${ingredientName} lot ${lot.lotCode}: a packing-line mix-up means it may contain peanut that is not on its label.`,
+      publicNotice: `We are recalling these cake pops: the ${ingredientName} in them may contain peanut, which is not declared on the label. If you or anyone you share them with is allergic to peanuts, do not eat them. Bring them back for a full refund, or throw them away.`,
       scope: { kind: 'supplier_lot', supplierLotId: lot.id },
       confirmed: true,
     }, at(1, 9), ctx.publicBaseUrl);
