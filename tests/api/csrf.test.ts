@@ -1,4 +1,5 @@
-import { describe, expect, test } from 'vitest';
+import { afterAll, describe, expect, test } from 'vitest';
+import { freshDatabase } from '../support/db';
 import { sql } from 'drizzle-orm';
 import { makeTestApp } from '../support/app';
 import { businessWithAgents, enrolledDeviceAgent } from '../support/agents';
@@ -64,23 +65,28 @@ describe('CSRF defences on a state-changing route', () => {
   });
 });
 
+// A database of its own: other files write to the shared one while this test compares every table.
+const fresh = await freshDatabase('get_is_safe');
+afterAll(() => fresh.drop());
+const own = makeTestApp({ databaseUrl: fresh.runtimeUrl });
+
 describe('GET never changes state', () => {
   /** A fingerprint of every table but the session store (reading may refresh a session's expiry). */
   async function fingerprint() {
-    const tables = await t.db.execute(sql`select tablename from pg_tables where schemaname = 'public' and tablename <> 'user_sessions' order by tablename`);
+    const tables = await own.db.execute(sql`select tablename from pg_tables where schemaname = 'public' and tablename <> 'user_sessions' order by tablename`);
     const out: Record<string, string> = {};
     for (const { tablename } of tables.rows as { tablename: string }[]) {
-      const r = await t.db.execute(sql.raw(`select count(*)::text || ':' || coalesce(md5(string_agg(x::text, ',' order by x::text)), '') as f from "${tablename}" x`));
+      const r = await own.db.execute(sql.raw(`select count(*)::text || ':' || coalesce(md5(string_agg(x::text, ',' order by x::text)), '') as f from "${tablename}" x`));
       out[tablename] = String((r.rows[0] as { f: string }).f);
     }
     return out;
   }
 
   test('calling every GET route as every caller leaves every table unchanged', async () => {
-    const s = await businessWithAgents(t);
-    const device = (await enrolledDeviceAgent(t, s.owner)).agent;
+    const s = await businessWithAgents(own);
+    const device = (await enrolledDeviceAgent(own, s.owner)).agent;
     const ids = [s.business.members.baker.userId, s.business.businessId, '00000000-0000-4000-8000-000000000000'];
-    const gets = listRoutes(t.app).filter((r) => r.method === 'GET');
+    const gets = listRoutes(own.app).filter((r) => r.method === 'GET');
     expect(gets.length).toBeGreaterThan(3);
     const before = await fingerprint();
     for (const route of gets) {

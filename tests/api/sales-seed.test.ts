@@ -32,10 +32,14 @@ describe('sales and recall demo steps', () => {
     for (const sale of (await listSales(t.db, actors.owner, { limit: 500 })).items) {
       if (sale.unit === 'packages' && !sale.voided) sold.set(sale.batchId, (sold.get(sale.batchId) ?? 0) + sale.quantity);
     }
+    let checked = 0;
     for (const [batchId, packages] of sold) {
-      const detail = await getBatchDetail(t.db, { businessId: b }, batchId);
-      expect(packages, detail.lotCode).toBeLessThanOrEqual(detail.quantityPackages ?? Infinity);
+      const made = (await getBatchDetail(t.db, { businessId: b }, batchId)).current.quantityPackages;
+      if (made === null) continue; // a batch recorded in pieces only
+      expect(packages, batchId).toBeLessThanOrEqual(made);
+      checked += 1;
     }
+    expect(checked).toBeGreaterThanOrEqual(5);
     const sales = (await listSales(t.db, actors.owner, { limit: 500 })).items;
     expect(new Set(sales.map((s) => s.channel)).size).toBeGreaterThanOrEqual(3);
     const customers = await listCustomers(t.db, actors.owner);

@@ -64,8 +64,8 @@ async function findPeriodRow(db: DbOrTx, businessId: string, id: string) {
 
 /** Lists periods: running ones (default) or all, optionally for one batch; most urgent first. */
 export async function listHoldingPeriods(db: Db, actor: Actor, query: HoldingListQuery, now: Date): Promise<HoldingPeriodList> {
+  // Reads never write: limits passed while nobody acts are noticed by the background scan (runHoldingAlertScan).
   const periods = await loadHoldingPeriods(db, actor.businessId, { batchId: query.batchId, runningOnly: query.state !== 'all' }, now);
-  await noticeHoldingViolations(db, actor.businessId, periods, now);
   return { periods, serverNow: now.toISOString() };
 }
 

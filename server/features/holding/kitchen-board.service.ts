@@ -5,7 +5,6 @@ import { batches } from '../../db/schema/batches';
 import { recipeVersions } from '../../db/schema/recipes';
 import type { KitchenBoard, KitchenBoardSection, KitchenBoardSectionKind } from '../../../shared/contracts/kitchen-board';
 import { businessTimeZone, loadHoldingPeriods } from './holding.queries';
-import { noticeHoldingViolations } from './holding-alerts';
 
 /**
  * One section of the kitchen board. Features register a provider (cleanings due, documents
@@ -34,7 +33,6 @@ export const holdingTimersSection: KitchenBoardSectionProvider = {
   order: 10,
   async load(db, actor, now) {
     const periods = (await loadHoldingPeriods(db, actor.businessId, { runningOnly: true, includeUnresolved: true }, now)).filter((p) => !p.stopped || p.needsAction);
-    await noticeHoldingViolations(db, actor.businessId, periods, now);
     const batchOptions = await db
       .select({ id: batches.id, lotCode: batches.lotCode, productName: recipeVersions.name, state: batches.state })
       .from(batches)
