@@ -52,28 +52,47 @@ function removeOldBuilds() {
 /**
  * Builds the client once per set of sources. Each process builds into its own fresh temp folder and
  * renames it into place; a rename that loses the race (folder already there) just uses the winner's.
- * No lock needed, and nothing is ever written to dist/.
+ * Vite allows one build of a project at a time, so a process that meets another build waits and retries.
+ * Nothing is ever written to dist/.
  */
 export function buildClient(): Promise<string> {
   building ??= (async () => {
     const target = path.join(os.tmpdir(), `crumbtrail-e2e-build-${hashInputs()}`);
-    if (fs.existsSync(path.join(target, 'index.html'))) return target;
-    removeOldBuilds();
-    const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'crumbtrail-e2e-tmp-'));
+    // Vite refuses a second build of the same project at the same time: wait for the other one, then retry
+    // (its result may already be in place).
+    for (let attempt = 0; ; attempt++) {
+      if (fs.existsSync(path.join(target, 'index.html'))) return target;
+      try {
+        await buildInto(target);
+        return target;
+      } catch (err) {
+        if (attempt >= 90 || !/another Vite build process/i.test(`${(err as { stderr?: string }).stderr ?? ''} ${String(err)}`)) throw err;
+        await new Promise((r) => setTimeout(r, 2_000));
+      }
+    }
+  })();
+  return building;
+}
+
+async function buildInto(target: string): Promise<void> {
+  removeOldBuilds();
+  const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'crumbtrail-e2e-tmp-'));
+  try {
     await run(path.join(ROOT, 'node_modules/.bin/vite'), ['build', '--logLevel', 'warn'], {
       cwd: ROOT,
       env: { ...process.env, VITE_OUT_DIR: tmp },
       maxBuffer: 16 * 1024 * 1024,
     });
-    try {
-      fs.renameSync(tmp, target);
-    } catch {
-      fs.rmSync(tmp, { recursive: true, force: true });
-      if (!fs.existsSync(path.join(target, 'index.html'))) throw new Error(`client build folder ${target} is incomplete`);
-    }
-    return target;
-  })();
-  return building;
+  } catch (err) {
+    fs.rmSync(tmp, { recursive: true, force: true });
+    throw err;
+  }
+  try {
+    fs.renameSync(tmp, target);
+  } catch {
+    fs.rmSync(tmp, { recursive: true, force: true });
+    if (!fs.existsSync(path.join(target, 'index.html'))) throw new Error(`client build folder ${target} is incomplete`);
+  }
 }
 
 export interface E2eServerOptions extends TestAppOptions {

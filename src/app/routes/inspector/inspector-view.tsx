@@ -7,7 +7,8 @@ import { CautionBox } from '@/components/ui/caution-box';
 import { LoadingBlock } from '@/components/ui/spinner';
 import { inspectorQueries } from '@/features/inspector/api';
 import { InspectorRecordsView } from '@/features/inspector/components/inspector-records';
-import { InspectorAllergenMatrix } from '@/features/inspector/components/inspector-allergen-matrix';
+import { AllergenMatrixTable } from '@/features/recipes/components/allergen-matrix-table';
+import type { AllergenMatrix } from '@shared/contracts/recipes';
 import { InspectorPacketButton } from '@/features/inspector/components/inspector-packet-button';
 
 import { RouteErrorBoundary, StandaloneFrame } from '../../route-error';
@@ -114,5 +115,20 @@ export function Component() {
         {matrix.isError && !isEnded(matrix.error) ? <p role="alert">The allergen matrix could not be loaded. Reload the page to try again.</p> : null}
       </div>
     </InspectorFrame>
+  );
+}
+
+/** Products × allergens for the inspector: read only, no links into member screens. */
+function InspectorAllergenMatrix({ matrix }: { matrix: AllergenMatrix }) {
+  return (
+    <section aria-labelledby="insp-allergens" className="space-y-2">
+      <h2 id="insp-allergens" className="text-xl font-bold">Allergen matrix</h2>
+      <p className="text-sm text-muted">
+        Current version of every product, allergens as listed for {matrix.regime.code} rules of {matrix.regime.ruleSetDate}.
+      </p>
+      {matrix.products.length === 0 ? <p className="text-muted">No products for sale.</p> : (
+        <AllergenMatrixTable matrix={matrix} testId="inspector-allergen-matrix" warningLabel="Not yet confirmed:" productCell={(p) => <span className="font-bold">{p.name}</span>} />
+      )}
+    </section>
   );
 }

@@ -7,6 +7,7 @@ import { Button } from '@/components/ui/button';
 import { CautionBox } from '@/components/ui/caution-box';
 import { LoadingBlock } from '@/components/ui/spinner';
 import { Select } from '@/components/ui/select';
+import { AllergenMatrixTable } from '@/features/recipes/components/allergen-matrix-table';
 import { paths } from '../../paths';
 
 export { RouteErrorBoundary as ErrorBoundary } from '../../route-error';
@@ -34,32 +35,10 @@ export function Component() {
       <CautionBox title="Cross-contact in a home kitchen">
         <p>These marks show what the recipes contain. A home kitchen may have cross-contact with other allergens: ask the baker before buying for someone with an allergy.</p>
       </CautionBox>
-      <div className="mt-4 relative overflow-x-auto">
-        <table className="min-w-full border-collapse text-left" data-testid="allergen-matrix">
-          <caption className="sr-only">Products and the allergens they contain</caption>
-          <thead>
-            <tr>
-              <th scope="col" className="border border-edge p-2">Product</th>
-              {m.allergens.map((a) => <th key={a.key} scope="col" className="border border-edge p-2 text-sm">{a.name}</th>)}
-            </tr>
-          </thead>
-          <tbody>
-            {m.products.map((p) => (
-              <tr key={p.recipeId}>
-                <th scope="row" className="border border-edge p-2 font-normal">
-                  <Link className="font-bold text-berry underline print:text-black print:no-underline" to={`${paths.recipes}/${p.recipeId}`}>{p.name}</Link>
-                  <span className="block text-xs text-muted">version {p.version}</span>
-                  {p.warnings.length ? <span className="block text-xs font-bold">Check: {p.warnings.join(' ')}</span> : null}
-                </th>
-                {p.cells.map((c) => (
-                  <td key={c.key} className="border border-edge p-2 text-center">
-                    {c.isPresent ? <span><span aria-hidden="true">✓ </span>Contains{c.kinds.length ? ` (${c.kinds.join(', ')})` : ''}</span> : <span className="text-muted">—<span className="sr-only">Not in the recipe</span></span>}
-                  </td>
-                ))}
-              </tr>
-            ))}
-          </tbody>
-        </table>
+      <div className="mt-4">
+        <AllergenMatrixTable matrix={m} testId="allergen-matrix" warningLabel="Check:" productCell={(p) => (
+          <Link className="font-bold text-berry underline print:text-black print:no-underline" to={`${paths.recipes}/${p.recipeId}`}>{p.name}</Link>
+        )} />
         {m.products.length === 0 ? <p className="mt-2">No sellable products yet.</p> : null}
       </div>
       <p className="mt-4 text-sm">Rules differ by place; your local rules and your local health authority decide what a label must say.</p>
