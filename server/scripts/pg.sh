@@ -63,7 +63,8 @@ start() {
       state="$(ps -o stat=,comm= -p "$(head -1 "$lock")" 2>/dev/null || true)"
       if [[ -z "$state" || "$state" == Z* || "$state" != *postgres* ]]; then rm -f "$lock"; fi
     done
-    as_pg "$BIN/pg_ctl" -D "$DATA" -l "$LOG" -w -t 60 start >/dev/null
+    # The port is passed at every start, so PGPORT wins over the one written at initdb.
+    as_pg "$BIN/pg_ctl" -D "$DATA" -l "$LOG" -o "-p $PGPORT" -w -t 60 start >/dev/null
     for _ in $(seq 60); do "$BIN/pg_isready" -q -h 127.0.0.1 -p "$PGPORT" && break; sleep 0.5; done
   fi
   "$BIN/pg_isready" -q -h 127.0.0.1 -p "$PGPORT"
