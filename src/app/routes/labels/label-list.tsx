@@ -139,8 +139,9 @@ export function Component() {
       <PageHeader title="Labels" description="Print labels for a batch from its recorded data, after the label check." />
       <div className="mb-6">
         <CautionBox title="Rules differ by place">
-          {/* The rule profile's own caution, once a batch is chosen, replaces the general one (they say the same). */}
-          <p>{check.data?.caution || 'Labelling rules differ by state, county and country, and they change. Check with your local health authority before you sell.'}</p>
+          <p>Labelling rules differ by state, county and country, and they change. Check with your local health authority before you sell.</p>
+          {/* The chosen batch's rule profile may add its own words. */}
+          {check.data?.caution ? <p className="mt-2">{check.data.caution}</p> : null}
         </CautionBox>
       </div>
       <div className="grid gap-8 lg:grid-cols-2">
