@@ -165,10 +165,9 @@ async function countsFor(db: DbOrTx, businessId: string, ids: string[]): Promise
   return out;
 }
 
-function toIngredient(v: IngredientVersionRow, createdAt: Date, people: Map<string, string>, counts: Counts): Ingredient {
+/** What a version declares, as the package says it: the same in the current view and in the history. */
+function declaredView(v: IngredientVersionRow) {
   return {
-    id: v.ingredientId,
-    version: v.version,
     labelName: v.labelName,
     subIngredients: v.subIngredients,
     allergens: v.allergens,
@@ -179,6 +178,14 @@ function toIngredient(v: IngredientVersionRow, createdAt: Date, people: Map<stri
     supplierItemCode: v.supplierItemCode,
     notes: v.notes,
     isArchived: v.isArchived,
+  };
+}
+
+function toIngredient(v: IngredientVersionRow, createdAt: Date, people: Map<string, string>, counts: Counts): Ingredient {
+  return {
+    id: v.ingredientId,
+    version: v.version,
+    ...declaredView(v),
     isVerified: v.verifiedAt !== null,
     verifiedBy: personRef(people, v.verifiedByUserId),
     verifiedAt: v.verifiedAt?.toISOString() ?? null,
@@ -238,16 +245,7 @@ export async function listIngredientVersions(db: DbOrTx, actor: Actor, id: strin
       id: v.id,
       version: v.version,
       change: changeKind(v, rows[i - 1]),
-      labelName: v.labelName,
-      subIngredients: v.subIngredients,
-      allergens: v.allergens,
-      allergensConfirmed: v.allergensConfirmed,
-      sulphitesMgPerKg: v.sulphitesMgPerKg === null ? null : Number(v.sulphitesMgPerKg),
-      needsTimeTemperatureControl: v.needsTimeTemperatureControl,
-      supplierName: v.supplierName,
-      supplierItemCode: v.supplierItemCode,
-      notes: v.notes,
-      isArchived: v.isArchived,
+      ...declaredView(v),
       verifiedBy: personRef(people, v.verifiedByUserId),
       verifiedAt: v.verifiedAt?.toISOString() ?? null,
       reason: v.reason,
